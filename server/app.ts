@@ -1,0 +1,88 @@
+import express, { type Express } from 'express';
+import helmet from 'helmet';
+import cookieParser from 'cookie-parser';
+import path from 'node:path';
+import { existsSync } from 'node:fs';
+import type { Sequelize } from 'sequelize';
+import { initModels } from './db/associations';
+import { SessionKeys } from './lib/session';
+import { authenticate, cookieSettings, csrfGuard } from './middleware/authenticate';
+import { errorHandler } from './middleware/error-handler';
+import type { Mailer } from './mail/mailer';
+import type { Mailbox } from './mail/smtp-fake';
+import { authRouter } from './routes/auth/auth.router';
+import { userRouter } from './routes/users/user.router';
+import { mailRouter } from './routes/mail/mail.router';
+import { healthRouter } from './routes/health/health.router';
+import { growerRouter } from './routes/growers/grower.router';
+import { farmRouter } from './routes/farms/farm.router';
+import { fieldRouter } from './routes/fields/field.router';
+import { seasonRouter } from './routes/seasons/season.router';
+import { planterRouter } from './routes/planters/planter.router';
+import { NotFoundError } from './errors';
+
+export type AppDeps = {
+  sequelize: Sequelize;
+  jwtSecret: string;
+  mailer: Mailer;
+  /** The local mail catcher, when one runs (development, demo, tests). */
+  mailbox?: Mailbox | null;
+  appUrl: string;
+  version: string;
+  cookieSecure?: boolean;
+  trustProxy?: number;
+  /** Folder of the built client to serve, if any. */
+  clientDir?: string;
+};
+
+/** Builds the whole app: middleware, routers and the one error handler. It never listens. */
+export function createApp(deps: AppDeps): Express {
+  initModels(deps.sequelize);
+  const keys = new SessionKeys(deps.jwtSecret);
+  const cookie = cookieSettings(deps.cookieSecure ?? false);
+  const app = express();
+  app.disable('x-powered-by');
+  app.set('trust proxy', deps.trustProxy ?? 0);
+  app.set('query parser', 'simple');
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        useDefaults: true,
+        directives: {
+          'worker-src': ["'self'", 'blob:'],
+          'img-src': ["'self'", 'data:', 'blob:'],
+          'connect-src': ["'self'"],
+          'upgrade-insecure-requests': deps.cookieSecure ? [] : null,
+        },
+      },
+      strictTransportSecurity: deps.cookieSecure ? undefined : false,
+    }),
+  );
+  app.use(cookieParser());
+  app.use('/api', express.json({ limit: '2mb' }));
+  app.use('/api', csrfGuard);
+  app.use('/api', authenticate(keys, cookie));
+
+  app.use('/api/health', healthRouter(deps.sequelize, deps.version));
+  app.use('/api/auth', authRouter({ keys, cookie, mailer: deps.mailer, appUrl: deps.appUrl }));
+  app.use('/api/users', userRouter({ mailer: deps.mailer, appUrl: deps.appUrl }));
+  app.use('/api/mail', mailRouter(deps.mailbox ?? null));
+  app.use('/api/growers', growerRouter());
+  app.use('/api/farms', farmRouter());
+  app.use('/api/fields', fieldRouter());
+  app.use('/api/seasons', seasonRouter());
+  app.use('/api/planters', planterRouter());
+  app.use('/api', (_req, _res, next) => next(new NotFoundError('Route')));
+
+  if (deps.clientDir && existsSync(path.join(deps.clientDir, 'index.html'))) {
+    const dir = deps.clientDir;
+    app.use(express.static(dir, { index: false, maxAge: '1h' }));
+    // Every other path is a client route: answer the app shell.
+    app.get('/{*splat}', (_req, res) => {
+      res.set('Cache-Control', 'no-cache');
+      res.sendFile(path.join(dir, 'index.html'));
+    });
+  }
+  app.use(errorHandler);
+  return app;
+}
