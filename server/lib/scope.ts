@@ -2,11 +2,15 @@ import { Op, type WhereOptions } from 'sequelize';
 import { ConflictError, NotFoundError } from '../errors';
 import type { Actor } from '../types';
 
-/** Rows of the actor's workspace, and for farmers and consultants only their growers' rows. */
-export function scopedWhere(actor: Actor, growerColumn = 'growerId'): WhereOptions {
-  const where: Record<string, unknown> = { workspaceId: actor.workspaceId };
-  if (actor.growerScope) where[growerColumn] = { [Op.in]: actor.growerScope };
-  return where as WhereOptions;
+/**
+ * Rows of the actor's workspace, and for farmers and consultants only their growers' rows, AND the given
+ * conditions. The scope is a clause of its own: a condition from the request (an `:id`, `?growerId=`) can
+ * only narrow it, never widen it by replacing a key of the same name in a merged object.
+ */
+export function scopedWhere(actor: Actor, conditions: WhereOptions = {}, growerColumn = 'growerId'): WhereOptions {
+  const scope: Record<string, unknown> = { workspaceId: actor.workspaceId };
+  if (actor.growerScope) scope[growerColumn] = { [Op.in]: actor.growerScope };
+  return { [Op.and]: [scope, conditions] };
 }
 
 export function archivedWhere(archived: 'true' | 'false' | 'only'): WhereOptions {

@@ -33,7 +33,7 @@ function toDto(f: Farm): FarmDto {
 
 export async function listFarms(actor: Actor, q: z.output<typeof farmListQuerySchema>) {
   const rows = await Farm.findAll({
-    where: { ...scopedWhere(actor), ...archivedWhere(q.archived), ...(q.growerId ? { growerId: q.growerId } : {}) },
+    where: scopedWhere(actor, { ...archivedWhere(q.archived), ...(q.growerId ? { growerId: q.growerId } : {}) }),
     attributes: { include: extra },
     include,
     order: [['name', 'ASC']],
@@ -42,7 +42,7 @@ export async function listFarms(actor: Actor, q: z.output<typeof farmListQuerySc
 }
 
 async function findScoped(actor: Actor, id: string) {
-  const row = await Farm.findOne({ where: { ...scopedWhere(actor), id }, attributes: { include: extra }, include });
+  const row = await Farm.findOne({ where: scopedWhere(actor, { id }), attributes: { include: extra }, include });
   return assertFound(row, 'Farm');
 }
 

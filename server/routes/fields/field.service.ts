@@ -36,12 +36,11 @@ function toDto(f: Field): FieldDto {
 
 export async function listFields(actor: Actor, q: z.output<typeof fieldListQuerySchema>) {
   const rows = await Field.findAll({
-    where: {
-      ...scopedWhere(actor),
+    where: scopedWhere(actor, {
       ...archivedWhere(q.archived),
       ...(q.growerId ? { growerId: q.growerId } : {}),
       ...(q.farmId ? { farmId: q.farmId } : {}),
-    },
+    }),
     include,
     order: [['name', 'ASC']],
   });
@@ -49,7 +48,7 @@ export async function listFields(actor: Actor, q: z.output<typeof fieldListQuery
 }
 
 async function findScoped(actor: Actor, id: string) {
-  return assertFound(await Field.findOne({ where: { ...scopedWhere(actor), id }, include }), 'Field');
+  return assertFound(await Field.findOne({ where: scopedWhere(actor, { id }), include }), 'Field');
 }
 
 export const getField = async (actor: Actor, id: string) => toDto(await findScoped(actor, id));

@@ -1,6 +1,6 @@
-import { Op, literal } from 'sequelize';
+import { literal, type WhereOptions } from 'sequelize';
 import { Grower } from '../../db/associations';
-import { archivedWhere, assertFound, assertVersion, inScope, iso } from '../../lib/scope';
+import { archivedWhere, assertFound, assertVersion, inScope, iso, scopedWhere } from '../../lib/scope';
 import type { Actor } from '../../types';
 import type { Grower as GrowerDto } from '../../../shared/schemas/grower.schema';
 import type { growerInputSchema, growerUpdateSchema } from '../../../shared/schemas/grower.schema';
@@ -29,15 +29,12 @@ function toDto(g: Grower): GrowerDto {
   };
 }
 
-function whereFor(actor: Actor) {
-  const where: Record<string | symbol, unknown> = { workspaceId: actor.workspaceId };
-  if (actor.growerScope) where.id = { [Op.in]: actor.growerScope };
-  return where;
-}
+/** A grower's own id is its grower column: the scope applies to `id`. */
+const whereFor = (actor: Actor, conditions: WhereOptions) => scopedWhere(actor, conditions, 'id');
 
 export async function listGrowers(actor: Actor, archived: 'true' | 'false' | 'only') {
   const rows = await Grower.findAll({
-    where: { ...whereFor(actor), ...archivedWhere(archived) },
+    where: whereFor(actor, archivedWhere(archived)),
     attributes: { include: counts.map(([l, n]) => [l, n]) },
     order: [['name', 'ASC']],
   });
@@ -46,7 +43,7 @@ export async function listGrowers(actor: Actor, archived: 'true' | 'false' | 'on
 
 async function findScoped(actor: Actor, id: string) {
   const row = await Grower.findOne({
-    where: { ...whereFor(actor), id },
+    where: whereFor(actor, { id }),
     attributes: { include: counts.map(([l, n]) => [l, n]) },
   });
   return assertFound(row, 'Grower');

@@ -42,7 +42,7 @@ function toDto(p: Planter): PlanterDto {
 
 export async function listPlanters(actor: Actor, q: z.output<typeof planterListQuerySchema>) {
   const rows = await Planter.findAll({
-    where: { ...scopedWhere(actor), ...archivedWhere(q.archived), ...(q.growerId ? { growerId: q.growerId } : {}) },
+    where: scopedWhere(actor, { ...archivedWhere(q.archived), ...(q.growerId ? { growerId: q.growerId } : {}) }),
     include,
     order: [['name', 'ASC']],
   });
@@ -50,7 +50,7 @@ export async function listPlanters(actor: Actor, q: z.output<typeof planterListQ
 }
 
 async function findScoped(actor: Actor, id: string) {
-  return assertFound(await Planter.findOne({ where: { ...scopedWhere(actor), id }, include }), 'Planter');
+  return assertFound(await Planter.findOne({ where: scopedWhere(actor, { id }), include }), 'Planter');
 }
 
 export const getPlanter = async (actor: Actor, id: string) => toDto(await findScoped(actor, id));

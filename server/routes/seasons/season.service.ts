@@ -40,13 +40,12 @@ function toDto(s: CropSeason & { grower?: Grower }): SeasonDto {
 
 export async function listSeasons(actor: Actor, q: z.output<typeof seasonListQuerySchema>) {
   const rows = await CropSeason.findAll({
-    where: {
-      ...scopedWhere(actor),
+    where: scopedWhere(actor, {
       ...archivedWhere(q.archived),
       ...(q.growerId ? { growerId: q.growerId } : {}),
       ...(q.fieldId ? { fieldId: q.fieldId } : {}),
       ...(q.year ? { year: q.year } : {}),
-    },
+    }),
     include,
     order: [
       ['year', 'DESC'],
@@ -57,7 +56,7 @@ export async function listSeasons(actor: Actor, q: z.output<typeof seasonListQue
 }
 
 async function findScoped(actor: Actor, id: string) {
-  return assertFound(await CropSeason.findOne({ where: { ...scopedWhere(actor), id }, include }), 'Crop season');
+  return assertFound(await CropSeason.findOne({ where: scopedWhere(actor, { id }), include }), 'Crop season');
 }
 
 export const getSeason = async (actor: Actor, id: string) => toDto(await findScoped(actor, id));

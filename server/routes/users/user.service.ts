@@ -1,4 +1,4 @@
-import { Op } from 'sequelize';
+import { Op, type Transaction } from 'sequelize';
 import type { z } from 'zod';
 import { ConsultantGrower, Grower, User } from '../../db/associations';
 import { ConflictError, NotFoundError } from '../../errors';
@@ -63,10 +63,13 @@ async function applyAssignments(actor: Actor, user: User, a: Assignment) {
   return growerIds;
 }
 
-async function writeConsultantGrowers(actor: Actor, userId: string, growerIds: string[]) {
-  await ConsultantGrower.destroy({ where: { userId } });
+async function writeConsultantGrowers(actor: Actor, userId: string, growerIds: string[], transaction: Transaction) {
+  await ConsultantGrower.destroy({ where: { userId }, transaction });
   if (growerIds.length) {
-    await ConsultantGrower.bulkCreate(growerIds.map((growerId) => ({ userId, growerId, workspaceId: actor.workspaceId })));
+    await ConsultantGrower.bulkCreate(
+      growerIds.map((growerId) => ({ userId, growerId, workspaceId: actor.workspaceId })),
+      { transaction },
+    );
   }
 }
 
@@ -88,9 +91,10 @@ export async function inviteUser(
     lastSignInAt: null,
   });
   const growerIds = await applyAssignments(actor, user, input);
-  await User.sequelize!.transaction(async () => {
-    await user.save();
-    await writeConsultantGrowers(actor, user.id, growerIds);
+  // No CLS namespace is set up: the transaction must be passed to each query, or they run outside it.
+  await User.sequelize!.transaction(async (transaction) => {
+    await user.save({ transaction });
+    await writeConsultantGrowers(actor, user.id, growerIds, transaction);
   });
   await sendInvitation(user, mailer, appUrl, invitedBy);
   return getUser(actor, user.id);
@@ -111,9 +115,10 @@ export async function updateUser(actor: Actor, id: string, input: z.output<typeo
   const growerIds = await applyAssignments(actor, user, input);
   // A role change, a new grower scope or disabling ends the person's sessions at once.
   user.tokenVersion += 1;
-  await User.sequelize!.transaction(async () => {
-    await user.save();
-    await writeConsultantGrowers(actor, user.id, growerIds);
+  // No CLS namespace is set up: the transaction must be passed to each query, or they run outside it.
+  await User.sequelize!.transaction(async (transaction) => {
+    await user.save({ transaction });
+    await writeConsultantGrowers(actor, user.id, growerIds, transaction);
   });
   return getUser(actor, id);
 }
