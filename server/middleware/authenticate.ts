@@ -1,8 +1,8 @@
 import type { Request, RequestHandler, Response } from 'express';
-import { ConsultantGrower, User } from '../db/associations';
+import { QueryTypes } from 'sequelize';
+import { User } from '../db/associations';
 import { ForbiddenError, UnauthenticatedError } from '../errors';
 import { REFRESH_AFTER_SECONDS, type SessionKeys, type SessionClaims } from '../lib/session';
-import type { Actor } from '../types';
 import type { Role } from '../../shared/schemas/auth.schema';
 
 export type CookieSettings = { name: string; secure: boolean };
@@ -26,14 +26,25 @@ export function clearSessionCookie(res: Response, cookie: CookieSettings) {
   res.clearCookie(cookie.name, { httpOnly: true, secure: cookie.secure, sameSite: 'strict', path: '/' });
 }
 
-export async function actorFor(user: User): Promise<Actor> {
-  let growerScope: string[] | null = null;
-  if (user.role === 'farmer') growerScope = user.growerId ? [user.growerId] : [];
-  if (user.role === 'consultant') {
-    const rows = await ConsultantGrower.findAll({ where: { userId: user.id }, attributes: ['growerId'] });
-    growerScope = rows.map((r) => r.growerId);
-  }
-  return { userId: user.id, workspaceId: user.workspaceId, role: user.role, growerScope };
+type SessionRow = {
+  id: string;
+  workspace_id: string;
+  role: Role;
+  status: string;
+  token_version: number;
+  grower_id: string | null;
+  consultant_growers: string[];
+};
+
+/** One round trip per request: the person, and for a consultant the growers they read. */
+async function loadSessionUser(id: string): Promise<SessionRow | null> {
+  const rows = await User.sequelize!.query<SessionRow>(
+    `SELECT u.id, u.workspace_id, u.role, u.status, u.token_version, u.grower_id,
+            coalesce(array(SELECT cg.grower_id::text FROM consultant_growers cg WHERE cg.user_id = u.id), '{}') AS consultant_growers
+       FROM users u WHERE u.id = $1`,
+    { bind: [id], type: QueryTypes.SELECT },
+  );
+  return rows[0] ?? null;
 }
 
 /**
@@ -50,12 +61,17 @@ export function authenticate(keys: SessionKeys, cookie: CookieSettings): Request
         clearSessionCookie(res, cookie);
         return next();
       }
-      const user = await User.findByPk(claims.sub);
-      if (!user || user.workspaceId !== claims.ws || user.tokenVersion !== claims.tv || user.status !== 'active') {
+      const row = await loadSessionUser(claims.sub);
+      if (!row || row.workspace_id !== claims.ws || row.token_version !== claims.tv || row.status !== 'active') {
         clearSessionCookie(res, cookie);
         return next();
       }
-      req.actor = await actorFor(user);
+      req.actor = {
+        userId: row.id,
+        workspaceId: row.workspace_id,
+        role: row.role,
+        growerScope: row.role === 'farmer' ? (row.grower_id ? [row.grower_id] : []) : row.role === 'consultant' ? row.consultant_growers : null,
+      };
       refreshIfOld(res, keys, cookie, claims);
       next();
     } catch (err) {
