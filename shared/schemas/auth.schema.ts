@@ -69,3 +69,6 @@ export const meSchema = z.object({
   unitSystem: unitSystemSchema,
 });
 export type Me = z.infer<typeof meSchema>;
+
+/** GET /api/auth/session: who is signed in, or null. */
+export const sessionSchema = z.object({ me: meSchema.nullable() });

@@ -216,3 +216,15 @@ describe('preferences', () => {
     expect((await p.caller.get('/api/auth/me')).body.unitSystem).toBe('metric');
   });
 });
+
+describe('GET /api/auth/session', () => {
+  it('answers 200 with null when signed out and the person when signed in', async () => {
+    const out = await request(t.app).get('/api/auth/session');
+    expect(out.status).toBe(200);
+    expect(out.body).toEqual({ me: null });
+    const inside = await w.callers.consultant.get('/api/auth/session');
+    expect(inside.status).toBe(200);
+    expect(inside.body.me.role).toBe('consultant');
+    expect(inside.body.me).not.toHaveProperty('passwordHash');
+  });
+});

@@ -105,6 +105,15 @@ export function authRouter({ keys, cookie, mailer, appUrl }: AuthDeps) {
     }),
   );
 
+  // The client asks this on load: 200 either way, so a signed-out visit is not an error in the console.
+  router.get(
+    '/session',
+    handle({}, async ({ req }) => {
+      const user = req.actor ? await User.findByPk(req.actor.userId) : null;
+      return { me: user ? await auth.meOf(user) : null };
+    }),
+  );
+
   router.put(
     '/preferences',
     requireSignIn,
