@@ -25,7 +25,7 @@ export function Component() {
           Areas, row spacing and speeds are shown and typed in these units. Sowright stores metric values, so switching
           changes nothing that is saved.
         </p>
-        <UnitSystemSwitch value={me.unitSystem} />
+        <UnitSystemSwitch value={me.unitSystem} legend="Show measurements in" />
       </Section>
       <Section title="Change password">
         <ChangePasswordForm />

@@ -12,7 +12,7 @@ function MailPage() {
     <>
       <PageHeader
         title="Mail outbox"
-        description="This installation sends no real e-mail: every message it would send is caught here, so you can open invitation and password links from this page."
+        description="E-mail is caught here instead of being sent, so you can follow invitation and password links from this page."
       />
       <QueryState query={mail}>{(messages) => <MailOutbox messages={messages} />}</QueryState>
     </>

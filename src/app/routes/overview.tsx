@@ -126,8 +126,8 @@ export function Component() {
             <GrowerTable growers={growers.data} canEdit={false} />
           </Section>
         ) : (
-          <div className="grid gap-x-6 lg:grid-cols-2">
-            <Section title="Growers">
+          <div className="mt-7 grid gap-x-6 gap-y-7 lg:grid-cols-2">
+            <Section title="Growers" className="">
               <ShortList
                 empty="No growers yet."
                 items={[...growers.data]
@@ -146,7 +146,7 @@ export function Component() {
                 more={growers.data.length > SHORT ? { to: '/growers', label: `All ${growers.data.length} growers` } : undefined}
               />
             </Section>
-            <Section title="Fields without a boundary">
+            <Section title="Fields without a boundary" className="">
               <ShortList
                 empty="Every field has a boundary."
                 items={missing.slice(0, SHORT).map((f) => ({ id: f.id, to: `/fields/${f.id}`, name: f.name, note: `${f.farmName}, ${f.growerName}` }))}

@@ -39,10 +39,10 @@ function PlanterPage({ planter: p }: { planter: Planter }) {
               label: 'Row arrangement',
               value:
                 p.arrangement === 'split-row' && p.interplantRowCount != null
-                  ? `${ARRANGEMENT_LABELS[p.arrangement]}: ${p.interplantRowCount} interplant`
+                  ? `Split-row, ${p.interplantRowCount} interplant rows`
                   : ARRANGEMENT_LABELS[p.arrangement],
             },
-            { label: 'Sections', value: `${p.sectionCount} of ${p.displaySectionLimit} the display controls`, numeric: true },
+            { label: `Sections (display controls ${p.displaySectionLimit})`, value: formatNumber(p.sectionCount), numeric: true },
           ]}
         />
         <div className="mt-2">

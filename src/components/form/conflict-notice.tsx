@@ -33,12 +33,15 @@ export function useConflictRecovery<T extends FieldValues, C, O>(
 
   const reload = async () => {
     const typed = form.getValues();
+    const opened = (form.formState.defaultValues ?? {}) as Record<string, unknown>;
+    const same = (a: unknown, b: unknown) => JSON.stringify(a ?? null) === JSON.stringify(b ?? null);
     setState({ kind: 'loading' });
     try {
       const fresh = await opts.reload();
       form.reset(fresh);
+      // Only what the user changed since opening the form, and where the latest version says otherwise.
       const differences = Object.keys(opts.labels)
-        .filter((key) => JSON.stringify(typed[key] ?? null) !== JSON.stringify(fresh[key] ?? null))
+        .filter((key) => !same(typed[key], opened[key]) && !same(typed[key], fresh[key]))
         .map((key) => ({ key, label: opts.labels[key] ?? key, typed: typed[key], saved: fresh[key] }));
       setState({ kind: 'reloaded', differences });
     } catch (e) {
@@ -57,7 +60,7 @@ export function useConflictRecovery<T extends FieldValues, C, O>(
     state.kind === 'none' ? null : state.kind === 'reloaded' ? (
       <Notice tone="info" title="The latest version is loaded">
         {state.differences.length === 0 ? (
-          <p>Nothing you typed differs from it. Check the form and save again.</p>
+          <p>Your changes match it, or you had changed nothing. Check the form and save again.</p>
         ) : (
           <>
             <p>What you had typed is kept below. Put back the entries you want, then save again.</p>

@@ -5,6 +5,14 @@ import { applyApiError } from '@/lib/form-errors';
 import { useConflictRecovery } from './conflict-notice';
 
 /**
+ * A save refused because the record changed since it was read: 409 without field details. DEVELOPERS.md
+ * names the code `conflict`; the server sends `stale`; both are taken. A 409 with details is a refusal
+ * about particular fields and goes beside them instead.
+ */
+export const isStaleVersion = (error: unknown) =>
+  isApiError(error) && error.status === 409 && (error.code === 'stale' || error.code === 'conflict') && error.details.length === 0;
+
+/**
  * Everything a record form does when a save fails: a stale version (409 `conflict`) offers to load the
  * latest while keeping what was typed; validation details go beside their fields; the rest goes on top.
  * `labels` names the form's fields (their keys are the API's keys).
@@ -34,7 +42,7 @@ export function useSaveErrors<T extends FieldValues, C, O>(
       conflict.clear();
     },
     onError: (error: unknown) => {
-      if (opts.reload && isApiError(error) && error.status === 409 && error.code === 'conflict') {
+      if (opts.reload && isStaleVersion(error)) {
         setFormError(null);
         conflict.flag();
         return;

@@ -64,9 +64,8 @@ export function AppShell({
         <div className="space-y-3 border-t border-ink-line px-4 py-3">
           <div>
             <p className="truncate font-medium text-ink">{user.name}</p>
-            <p className="truncate text-sm text-ink-soft">
-              {user.role} · {user.workspace}
-            </p>
+            <p className="text-sm text-ink-soft">{user.role}</p>
+            <p className="text-sm text-ink-soft">{user.workspace}</p>
           </div>
           {footer}
         </div>

@@ -9,13 +9,21 @@ const OPTIONS: { value: UnitSystem; label: string; units: string }[] = [
 ];
 
 /** Two radio buttons that save the user's unit system at once. */
-export function UnitSystemSwitch({ value, compact = false }: { value: UnitSystem; compact?: boolean }) {
+export function UnitSystemSwitch({
+  value,
+  compact = false,
+  legend = 'Units',
+}: {
+  value: UnitSystem;
+  compact?: boolean;
+  legend?: string;
+}) {
   const update = useUpdatePreferences();
   const name = useId();
   const shown = update.isPending && update.variables ? update.variables.unitSystem : value;
   return (
     <fieldset>
-      <legend className={compact ? 'mb-1 text-xs text-ink-faint' : 'mb-1.5 text-sm font-medium'}>Units</legend>
+      <legend className={compact ? 'mb-1 text-xs text-ink-faint' : 'mb-1.5 text-sm font-medium'}>{legend}</legend>
       <div className="inline-flex rounded-card border border-ink-line bg-paper-raised p-0.5">
         {OPTIONS.map((o) => (
           <label

@@ -19,7 +19,7 @@ export function BoundaryOutline({ boundary, size = 220, label }: { boundary: Mul
   const minY = Math.min(...pts.map((p) => p[1]));
   const maxY = Math.max(...pts.map((p) => p[1]));
   const span = Math.max(maxX - minX, maxY - minY) || 1;
-  const pad = 8;
+  const pad = 16;
   const scale = (size - 2 * pad) / span;
   const ox = pad + ((size - 2 * pad) - (maxX - minX) * scale) / 2;
   const oy = pad + ((size - 2 * pad) - (maxY - minY) * scale) / 2;
@@ -46,8 +46,8 @@ export function BoundaryOutline({ boundary, size = 220, label }: { boundary: Mul
       className="rounded-card border border-ink-line bg-paper-raised"
     >
       <path d={d} fillRule="evenodd" className="fill-clay-100 stroke-clay-600" strokeWidth={1.5} strokeLinejoin="round" />
-      <text x={size - 10} y={16} textAnchor="end" className="fill-ink-faint font-mono text-[10px]">
-        N ↑
+      <text x={size - 4} y={11} textAnchor="end" className="fill-ink-faint font-mono text-[9px]">
+        N↑
       </text>
     </svg>
   );

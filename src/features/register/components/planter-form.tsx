@@ -144,7 +144,7 @@ export function PlanterForm({
   const holesError = errors.holesPerDisc?.message ?? errors.holesPerDisc?.root?.message;
 
   return (
-    <form onSubmit={onSubmit} noValidate className="max-w-3xl space-y-5">
+    <form onSubmit={onSubmit} noValidate className="max-w-4xl space-y-5">
       {save.conflictNotice}
       <div className="grid gap-4 sm:grid-cols-2">
         {pickGrower ? (
@@ -189,7 +189,15 @@ export function PlanterForm({
               <FormField label={`Crop ${i + 1}`} error={errors.holesPerDisc?.[i]?.crop?.message} className="w-48">
                 <Select {...form.register(`holesPerDisc.${i}.crop`)} placeholder="Choose a crop" options={labelled(CROPS, CROP_LABELS)} />
               </FormField>
-              <FormField label="Holes per disc" error={errors.holesPerDisc?.[i]?.holes?.message} className="w-36">
+              <FormField
+                label={
+                  <>
+                    Holes per disc<span className="sr-only"> for crop {i + 1}</span>
+                  </>
+                }
+                error={errors.holesPerDisc?.[i]?.holes?.message}
+                className="w-36"
+              >
                 <Input type="number" min={1} {...form.register(`holesPerDisc.${i}.holes`, { valueAsNumber: true })} />
               </FormField>
               <Button variant="ghost" size="md" onClick={() => holes.remove(i)} disabled={holes.fields.length === 1} aria-label={`Remove crop ${i + 1}`}>
