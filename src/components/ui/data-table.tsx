@@ -57,7 +57,7 @@ export function DataTable<T>({
   });
   if (data.length === 0 && empty) return <>{empty}</>;
   return (
-    <div className="overflow-x-auto rounded-card border border-ink-line bg-paper-raised">
+    <div className="relative overflow-x-auto rounded-card border border-ink-line bg-paper-raised">
       <table className="w-full border-collapse text-sm" aria-label={label}>
         <thead>
           {table.getHeaderGroups().map((group) => (

@@ -25,7 +25,11 @@ export function Dialog({
   useEffect(() => {
     const el = ref.current;
     if (!el) return;
-    if (open && !el.open) el.showModal();
+    if (open && !el.open) {
+      el.showModal();
+      // showModal focuses the first control (the close button); prefer the one marked for it.
+      el.querySelector<HTMLElement>('[data-autofocus]')?.focus();
+    }
     if (!open && el.open) el.close();
   }, [open]);
   return (
@@ -86,8 +90,10 @@ export function ConfirmDialog({
       title={title}
       footer={
         <>
-          <Button onClick={onClose}>Cancel</Button>
-          <Button variant={tone} busy={busy} onClick={onConfirm} autoFocus>
+          <Button onClick={onClose} data-autofocus>
+            Cancel
+          </Button>
+          <Button variant={tone} busy={busy} onClick={onConfirm}>
             {confirmLabel}
           </Button>
         </>

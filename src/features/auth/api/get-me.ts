@@ -1,6 +1,6 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
-import { meSchema, type Me } from '@shared/schemas/auth.schema';
-import { api, isApiError } from '@/lib/api-client';
+import { sessionSchema, type Me } from '@shared/schemas/auth.schema';
+import { api } from '@/lib/api-client';
 
 export const authKeys = {
   all: ['auth'] as const,
@@ -8,14 +8,12 @@ export const authKeys = {
   invitation: (token: string) => ['auth', 'invitation', token] as const,
 };
 
-/** The signed-in user, or null when no session is open (401). */
+/**
+ * The signed-in user, or null. Asks GET /api/auth/session, which answers 200 either way, so a signed-out
+ * visit leaves no error in the console.
+ */
 export async function getMe(): Promise<Me | null> {
-  try {
-    return meSchema.parse(await api.get('/api/auth/me'));
-  } catch (e) {
-    if (isApiError(e) && e.status === 401) return null;
-    throw e;
-  }
+  return sessionSchema.parse(await api.get('/api/auth/session')).me;
 }
 
 export const meQueryOptions = () =>

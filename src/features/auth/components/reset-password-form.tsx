@@ -27,7 +27,7 @@ export function ResetPasswordForm({ token }: { token: string }) {
         onSuccess: () => setDone(true),
         onError: (e) => {
           if (isApiError(e) && (e.status === 404 || e.status === 410 || e.code === 'invalid_token')) {
-            setMessage('This link is no longer valid. Ask for a new one.');
+            setMessage('This link is no longer valid: it was used, replaced by a newer one, or has expired.');
           } else {
             setMessage(applyApiError(e, form.setError, ['password']));
           }

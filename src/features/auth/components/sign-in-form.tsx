@@ -50,7 +50,8 @@ export function SignInForm({ onSignedIn }: { onSignedIn: (me: Me) => void }) {
     <form onSubmit={onSubmit} noValidate className="space-y-4">
       {locked ? (
         <Notice tone="caution" title="Too many attempts">
-          Try again in <span className="font-mono">{secondsLeft}</span> s.
+          Try again in <span className="font-mono">{secondsLeft}</span> s
+          {secondsLeft > 90 ? ` (about ${Math.round(secondsLeft / 60)} min)` : ''}.
         </Notice>
       ) : message ? (
         <Notice tone="danger">{message}</Notice>

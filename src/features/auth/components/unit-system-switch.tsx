@@ -28,7 +28,7 @@ export function UnitSystemSwitch({
         {OPTIONS.map((o) => (
           <label
             key={o.value}
-            className={`cursor-pointer rounded-sm px-2.5 py-1 text-sm has-[:focus-visible]:outline-2 has-[:focus-visible]:outline-clay-500 ${
+            className={`relative cursor-pointer rounded-sm px-2.5 py-1 text-sm has-[:focus-visible]:outline-2 has-[:focus-visible]:outline-clay-500 ${
               shown === o.value ? 'bg-slate-800 text-paper-raised' : 'text-ink-soft hover:text-ink'
             }`}
           >
@@ -38,7 +38,7 @@ export function UnitSystemSwitch({
               value={o.value}
               checked={shown === o.value}
               onChange={() => update.mutate({ unitSystem: o.value })}
-              className="sr-only"
+              className="absolute inset-0 m-0 cursor-pointer opacity-0"
             />
             {o.label}
             {compact ? null : <span className="ml-1.5 text-xs opacity-75">{o.units}</span>}

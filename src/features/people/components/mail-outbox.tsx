@@ -33,7 +33,7 @@ export function MailOutbox({ messages }: { messages: MailMessage[] }) {
   const chosen = sorted.find((m) => m.id === chosenId) ?? sorted[0];
   return (
     <div className="grid gap-4 lg:grid-cols-[minmax(0,22rem)_1fr]">
-      <ul aria-label="Messages" className="divide-y divide-ink-line overflow-hidden rounded-card border border-ink-line bg-paper-raised">
+      <ul aria-label="Messages" className="self-start divide-y divide-ink-line overflow-hidden rounded-card border border-ink-line bg-paper-raised">
         {sorted.map((m) => {
           const active = m.id === chosen.id;
           return (

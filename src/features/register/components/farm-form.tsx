@@ -10,10 +10,13 @@ import { useCreateFarm } from '../api/create-farm';
 import { getFarm } from '../api/get-farm';
 import { useGrowers } from '../api/get-growers';
 import { useUpdateFarm } from '../api/update-farm';
-import { RecordSelect } from './record-select';
+import { pickedId, RecordSelect } from './record-select';
 import { useRecordForm } from './use-record-form';
 
-const formSchema = farmInputSchema.extend({ version: versionSchema.optional() });
+const formSchema = farmInputSchema.extend({
+  growerId: pickedId('grower'),
+  version: versionSchema.optional(),
+});
 type Values = z.input<typeof formSchema>;
 
 const LABELS = { growerId: 'Grower', name: 'Name', notes: 'Notes' };

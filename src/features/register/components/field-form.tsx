@@ -12,11 +12,14 @@ import { useFarms } from '../api/get-farms';
 import { getField } from '../api/get-field';
 import { useGrowers } from '../api/get-growers';
 import { useUpdateField } from '../api/update-field';
-import { NarrowByGrower, RecordSelect } from './record-select';
+import { NarrowByGrower, pickedId, RecordSelect } from './record-select';
 import { useRecordForm } from './use-record-form';
 
 /** The boundary is not edited here: it has its own import on the field's page. */
-const formSchema = fieldInputSchema.omit({ boundary: true }).extend({ version: versionSchema.optional() });
+const formSchema = fieldInputSchema.omit({ boundary: true }).extend({
+  farmId: pickedId('farm'),
+  version: versionSchema.optional(),
+});
 type Values = z.input<typeof formSchema>;
 
 const LABELS = { farmId: 'Farm', name: 'Name', notes: 'Notes' };

@@ -55,7 +55,8 @@ function planterResolver(system: UnitSystem, saved?: Planter): Resolver<PlanterF
   return async (values, context, options) => {
     const result = await inner(formToSi(values, system, saved), context, options as unknown as Parameters<typeof inner>[2]);
     if (Object.keys(result.errors).length === 0) return { values: result.values as PlanterOut, errors: {} };
-    const errors = { ...result.errors } as Record<string, { message?: string }>;
+    const errors = { ...result.errors } as Record<string, { message?: string; type?: string }>;
+    if (!values.growerId) errors.growerId = { type: 'required', message: 'Choose a grower' };
     for (const [key, err] of Object.entries(errors)) {
       if (err?.message) errors[key] = { ...err, message: messageInUserUnits(key, err.message, system) };
     }

@@ -1,8 +1,13 @@
 import type { UseFormRegisterReturn } from 'react-hook-form';
+import { z } from 'zod';
+import { idSchema } from '@shared/schemas/common.schema';
 import { FormField } from '@/components/ui/form-field';
 import { recordOptions, Select } from '@/components/ui/input';
 
 type Option = { id: string; name: string; detail?: string };
+
+/** A parent picker's value: the shared id rule, with "Choose a farm" rather than "Not a valid id" when empty. */
+export const pickedId = (what: string) => z.string().min(1, `Choose a ${what}`).pipe(idSchema);
 
 /** A labelled picker of records (grower, farm, field) bound to a form field. */
 export function RecordSelect({

@@ -13,10 +13,13 @@ import { useFields } from '../api/get-fields';
 import { useGrowers } from '../api/get-growers';
 import { getSeason } from '../api/get-season';
 import { useUpdateSeason } from '../api/update-season';
-import { NarrowByGrower, RecordSelect } from './record-select';
+import { NarrowByGrower, pickedId, RecordSelect } from './record-select';
 import { useRecordForm } from './use-record-form';
 
-const formSchema = seasonInputSchema.extend({ version: versionSchema.optional() });
+const formSchema = seasonInputSchema.extend({
+  fieldId: pickedId('field'),
+  version: versionSchema.optional(),
+});
 type Values = z.input<typeof formSchema>;
 
 const LABELS = { fieldId: 'Field', year: 'Year', crop: 'Crop', plannedPlantingDate: 'Planned planting date', notes: 'Notes' };
@@ -102,7 +105,7 @@ export function SeasonForm({
           <Select {...form.register('crop')} placeholder="Choose a crop" options={labelled(CROPS, CROP_LABELS)} />
         </FormField>
         <FormField label={LABELS.plannedPlantingDate} error={errors.plannedPlantingDate?.message}>
-          <Input type="date" {...form.register('plannedPlantingDate')} />
+          <Input type="date" {...form.register('plannedPlantingDate', { setValueAs: (v: string) => v || null })} />
         </FormField>
       </div>
       <FormField label={LABELS.notes} error={errors.notes?.message}>
