@@ -1,7 +1,8 @@
 import type { ReactNode } from 'react';
 import type { UseQueryResult } from '@tanstack/react-query';
 import { isApiError } from '@/lib/api-client';
-import { Button } from './button';
+import { Button, ButtonLink } from './button';
+import { EmptyState } from './empty-state';
 import { Loading } from './loading';
 import { Notice } from './notice';
 
@@ -41,6 +42,15 @@ export function QueryState<T>({
   loadingLabel?: string;
 }) {
   if (query.isPending) return <Loading label={loadingLabel} />;
-  if (query.isError) return <ErrorNotice error={query.error} onRetry={() => void query.refetch()} />;
+  if (query.isError) {
+    if (isApiError(query.error) && query.error.status === 404) {
+      return (
+        <EmptyState title="Nothing here" action={<ButtonLink to="/">Back to the overview</ButtonLink>}>
+          {describeError(query.error)}
+        </EmptyState>
+      );
+    }
+    return <ErrorNotice error={query.error} onRetry={() => void query.refetch()} />;
+  }
   return <>{children(query.data)}</>;
 }
