@@ -72,3 +72,7 @@ export type Me = z.infer<typeof meSchema>;
 
 /** GET /api/auth/session: who is signed in, or null. */
 export const sessionSchema = z.object({ me: meSchema.nullable() });
+
+/** GET /api/auth/invitation/:token. */
+export const invitationSchema = z.object({ email: z.string(), name: z.string(), workspaceName: z.string() });
+export type Invitation = z.infer<typeof invitationSchema>;

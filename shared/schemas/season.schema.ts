@@ -2,12 +2,13 @@ import { z } from 'zod';
 import { idSchema, listQuerySchema, optionalText, versionSchema } from './common.schema';
 import { cropSchema } from './crops';
 
+/** A calendar date as YYYY-MM-DD; an empty string means no date. */
 const isoDate = z
-  .string()
-  .regex(/^\d{4}-\d{2}-\d{2}$/, 'Use a date as YYYY-MM-DD')
+  .union([z.literal(''), z.string().regex(/^\d{4}-\d{2}-\d{2}$/, 'Use a date as YYYY-MM-DD')])
   .optional()
   .nullable()
-  .transform((v) => (v ? v : null));
+  .transform((v) => (v ? v : null))
+  .refine((v) => v === null || !Number.isNaN(Date.parse(`${v}T00:00:00Z`)), 'Not a real date');
 
 /** A crop season: what is planted in one field in one year. */
 export const seasonInputSchema = z.object({

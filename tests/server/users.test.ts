@@ -161,6 +161,30 @@ describe('changes that end sessions', () => {
   });
 });
 
+describe('changes that keep sessions', () => {
+  it('renaming a person (the admin themselves included) keeps their sessions', async () => {
+    const self = await editPerson(admin, w.people.admin.id, { name: 'Renamed admin' });
+    expect(self.status, JSON.stringify(self.body)).toBe(200);
+    expect(self.body.name).toBe('Renamed admin');
+    expect((await admin.get('/api/auth/me')).status).toBe(200);
+    const consultant = await signIn(t.app, w.people.consultant.email, TEST_PASSWORD);
+    const other = await editPerson(admin, w.people.consultant.id, { name: 'Renamed consultant', growerIds: [w.a.grower.id] });
+    expect(other.status, JSON.stringify(other.body)).toBe(200);
+    expect((await consultant.get('/api/auth/me')).status).toBe(200);
+  });
+
+  it('a change of a consultant’s growers ends their sessions (their scope changed)', async () => {
+    const consultant = await signIn(t.app, w.people.consultant.email, TEST_PASSWORD);
+    const res = await editPerson(admin, w.people.consultant.id, { growerIds: [w.a.grower.id, w.b.grower.id] });
+    expect(res.status, JSON.stringify(res.body)).toBe(200);
+    expect((await consultant.get('/api/auth/me')).status).toBe(401);
+    const again = await signIn(t.app, w.people.consultant.email, TEST_PASSWORD);
+    const growers = await again.get('/api/growers');
+    expect(growers.body.items.map((g: { id: string }) => g.id).sort()).toEqual([w.a.grower.id, w.b.grower.id].sort());
+    await editPerson(admin, w.people.consultant.id, { growerIds: [w.a.grower.id] });
+  });
+});
+
 describe('the mail outbox', () => {
   it("shows each admin only the messages to their own workspace's people", async () => {
     const other = await makeWorld(t.app, 'users-mail');

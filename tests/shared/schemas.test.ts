@@ -106,3 +106,14 @@ describe('register schemas', () => {
     expect(pathsOf(r).some((p) => p.startsWith('boundary'))).toBe(true);
   });
 });
+
+describe('crop season schema', () => {
+  it('takes an empty planting date as none, and refuses a date that is not real', async () => {
+    const { seasonInputSchema } = await import('../../shared/schemas/season.schema');
+    const base = { fieldId: ID, year: 2027, crop: 'corn' };
+    expect(seasonInputSchema.parse({ ...base, plannedPlantingDate: '' }).plannedPlantingDate).toBeNull();
+    expect(seasonInputSchema.parse({ ...base, plannedPlantingDate: '2027-04-28' }).plannedPlantingDate).toBe('2027-04-28');
+    expect(pathsOf(seasonInputSchema.safeParse({ ...base, plannedPlantingDate: '28/04/2027' }))).toEqual(['plannedPlantingDate']);
+    expect(pathsOf(seasonInputSchema.safeParse({ ...base, plannedPlantingDate: '2027-13-45' }))).toEqual(['plannedPlantingDate']);
+  });
+});

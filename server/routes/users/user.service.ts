@@ -109,12 +109,15 @@ export async function updateUser(actor: Actor, id: string, input: z.output<typeo
     ]);
   }
   const statusChanged = input.status !== undefined && user.status !== 'invited' && input.status !== user.status;
+  const roleChanged = input.role !== user.role;
+  const scopeBefore = JSON.stringify([user.growerId, [...((await assignmentsOf([user.id])).get(user.id) ?? [])].sort()]);
   user.name = input.name;
   user.role = input.role;
   if (statusChanged && input.status) user.status = input.status;
   const growerIds = await applyAssignments(actor, user, input);
-  // A role change, a new grower scope or disabling ends the person's sessions at once.
-  user.tokenVersion += 1;
+  const scopeChanged = scopeBefore !== JSON.stringify([user.growerId, [...growerIds].sort()]);
+  // A role change, a new grower scope or disabling ends the person's sessions at once; a new name does not.
+  if (roleChanged || statusChanged || scopeChanged) user.tokenVersion += 1;
   // No CLS namespace is set up: the transaction must be passed to each query, or they run outside it.
   await User.sequelize!.transaction(async (transaction) => {
     await user.save({ transaction });

@@ -1,14 +1,10 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
-import { z } from 'zod';
+import { invitationSchema } from '@shared/schemas/auth.schema';
 import { api } from '@/lib/api-client';
 import { authKeys } from './get-me';
 
-/**
- * GET /api/auth/invitation/:token answers `{ email, name, workspaceName }`, or 404 when the link is
- * unknown, used or expired. (shared/schemas has no schema for this answer yet: this one mirrors the contract.)
- */
-export const invitationSchema = z.object({ email: z.string(), name: z.string(), workspaceName: z.string() });
-export type Invitation = z.infer<typeof invitationSchema>;
+/** GET /api/auth/invitation/:token: who is invited where, or 404 when the link is unknown, used or expired. */
+export { invitationSchema, type Invitation } from '@shared/schemas/auth.schema';
 
 export const getInvitation = async (token: string) =>
   invitationSchema.parse(await api.get(`/api/auth/invitation/${encodeURIComponent(token)}`));
