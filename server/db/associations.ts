@@ -8,6 +8,8 @@ import { Farm } from './models/farm.model';
 import { Field } from './models/field.model';
 import { CropSeason } from './models/crop-season.model';
 import { Planter } from './models/planter.model';
+import { initZoneMapModels } from './models/zone-map.model';
+import { initImportModels } from './models/upload.model';
 
 let initialised: Sequelize | null = null;
 
@@ -25,6 +27,8 @@ export function initModels(sequelize: Sequelize) {
   CropSeason.belongsTo(Field, { as: 'field', foreignKey: 'fieldId' });
   CropSeason.belongsTo(Grower, { as: 'grower', foreignKey: 'growerId' });
   Planter.belongsTo(Grower, { as: 'grower', foreignKey: 'growerId' });
+  initZoneMapModels(sequelize);
+  initImportModels(sequelize);
 }
 
 export { Workspace, User, UserToken, ConsultantGrower, Grower, Farm, Field, CropSeason, Planter };

@@ -74,6 +74,8 @@ export const zoneMapFromImportSchema = createZoneMapSchema.extend({
   nameProperty: z.string().nullable(),
   classProperty: z.string().nullable(),
   indexProperty: z.string().nullable(),
+  /** Cover what the chosen zones leave of the boundary with a default zone. */
+  fillGaps: z.boolean().default(false),
 });
 
 export const CLASS_METHODS = ['quantile', 'jenks', 'kmeans'] as const;
@@ -92,6 +94,9 @@ export const zonesFromPointsSchema = createZoneMapSchema.extend({
   power: z.number().min(1).max(4).default(2),
   minAreaM2: z.number().min(0).max(500_000),
 });
+
+/** The preview takes the same choices; the name is only needed to save. */
+export const zonesFromPointsPreviewRequestSchema = zonesFromPointsSchema.extend({ name: z.string().optional() });
 
 export const zonesFromPointsPreviewSchema = z.object({
   breaks: z.array(z.number()),
@@ -117,3 +122,11 @@ export const mergeZonesSchema = z.object({ ...edit, zoneIds: z.tuple([idSchema, 
 export const resolveOverlapSchema = z.object({ ...edit, keepZoneId: idSchema, loseZoneId: idSchema });
 export const zoneMapVersionOnlySchema = z.object(edit);
 export const zoneMapVersionQuerySchema = z.object({ version: z.coerce.number().int().min(0) });
+
+/** A new version copies the zones of the one it starts from; the name stays unless one is given. */
+export const newZoneMapVersionSchema = z.object({ name: nameText('Name').optional() });
+
+export const ZONE_EXPORT_FORMATS = ['geojson', 'shapefile'] as const;
+export const zoneMapExportQuerySchema = z.object({
+  format: z.enum(ZONE_EXPORT_FORMATS, { message: 'Choose format=geojson or format=shapefile' }),
+});
