@@ -44,6 +44,24 @@ export default tseslint.config(
               message: 'features do not import each other; compose them in src/app',
             },
             {
+              target: './src/features/imports',
+              from: './src/features',
+              except: ['./imports'],
+              message: 'features do not import each other; compose them in src/app',
+            },
+            {
+              target: './src/features/boundaries',
+              from: './src/features',
+              except: ['./boundaries'],
+              message: 'features do not import each other; compose them in src/app',
+            },
+            {
+              target: './src/features/zones',
+              from: './src/features',
+              except: ['./zones'],
+              message: 'features do not import each other; compose them in src/app',
+            },
+            {
               target: './src/features/people',
               from: './src/features',
               except: ['./people'],

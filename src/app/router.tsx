@@ -52,6 +52,7 @@ export function createAppRouter(qc: QueryClient) {
             { path: 'fields/new', lazy: page(() => import('./routes/field-edit')) },
             { path: 'fields/:id', lazy: page(() => import('./routes/field')) },
             { path: 'fields/:id/edit', lazy: page(() => import('./routes/field-edit')) },
+            { path: 'fields/:id/boundary', lazy: page(() => import('./routes/field-boundary')) },
             { path: 'seasons', lazy: page(() => import('./routes/seasons')) },
             { path: 'seasons/new', lazy: page(() => import('./routes/season-edit')) },
             { path: 'seasons/:id/edit', lazy: page(() => import('./routes/season-edit')) },

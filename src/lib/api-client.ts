@@ -51,7 +51,8 @@ function parseRetryAfter(value: string | null): number | null {
 
 async function request(method: string, path: string, body?: unknown, query?: Query): Promise<unknown> {
   const headers: Record<string, string> = { Accept: 'application/json' };
-  if (body !== undefined) headers['Content-Type'] = 'application/json';
+  const form = body instanceof FormData;
+  if (body !== undefined && !form) headers['Content-Type'] = 'application/json';
   if (method !== 'GET') headers['X-Sowright-Request'] = '1';
   let res: Response;
   try {
@@ -59,7 +60,7 @@ async function request(method: string, path: string, body?: unknown, query?: Que
       method,
       headers,
       credentials: 'same-origin',
-      body: body === undefined ? undefined : JSON.stringify(body),
+      body: body === undefined ? undefined : form ? body : JSON.stringify(body),
     });
   } catch {
     throw new ApiError({ status: 0, code: 'network', message: 'The server could not be reached. Check the connection and try again.' });
@@ -92,4 +93,7 @@ export const api = {
   get: (path: string, query?: Query) => request('GET', path, undefined, query),
   post: (path: string, body?: unknown) => request('POST', path, body ?? {}),
   put: (path: string, body: unknown) => request('PUT', path, body),
+  delete: (path: string, query?: Query) => request('DELETE', path, undefined, query),
+  /** A multipart upload (a file and its fields); the browser sets the boundary. */
+  upload: (path: string, form: FormData) => request('POST', path, form),
 };
