@@ -19,6 +19,8 @@ import { farmRouter } from './routes/farms/farm.router';
 import { fieldRouter } from './routes/fields/field.router';
 import { seasonRouter } from './routes/seasons/season.router';
 import { planterRouter } from './routes/planters/planter.router';
+import { importRouter } from './routes/imports/import.router';
+import { boundaryRouter } from './routes/fields/boundary.router';
 import { NotFoundError } from './errors';
 
 export type AppDeps = {
@@ -72,6 +74,8 @@ export function createApp(deps: AppDeps): Express {
   app.use('/api/fields', fieldRouter());
   app.use('/api/seasons', seasonRouter());
   app.use('/api/planters', planterRouter());
+  app.use('/api/imports', importRouter());
+  app.use('/api/fields', boundaryRouter());
   app.use('/api', (_req, _res, next) => next(new NotFoundError('Route')));
 
   if (deps.clientDir && existsSync(path.join(deps.clientDir, 'index.html'))) {
