@@ -19,6 +19,7 @@ import { farmRouter } from './routes/farms/farm.router';
 import { fieldRouter } from './routes/fields/field.router';
 import { seasonRouter } from './routes/seasons/season.router';
 import { planterRouter } from './routes/planters/planter.router';
+import { zoneMapRouter } from './routes/zone-maps/zone-map.router';
 import { importRouter } from './routes/imports/import.router';
 import { boundaryRouter } from './routes/fields/boundary.router';
 import { NotFoundError } from './errors';
@@ -74,6 +75,7 @@ export function createApp(deps: AppDeps): Express {
   app.use('/api/fields', fieldRouter());
   app.use('/api/seasons', seasonRouter());
   app.use('/api/planters', planterRouter());
+  app.use('/api/zone-maps', zoneMapRouter());
   app.use('/api/imports', importRouter());
   app.use('/api/fields', boundaryRouter());
   app.use('/api', (_req, _res, next) => next(new NotFoundError('Route')));

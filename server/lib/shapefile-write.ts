@@ -24,7 +24,10 @@ export type DbfField =
   /** Numbers written with `decimals` places in a field `width` characters wide. */
   | { key: string; type: 'N'; width: number; decimals: number };
 
-export type ShapefileRecord = { geometry: MultiPolygonGeom | null; properties: Record<string, string | number | null> };
+export type ShapefileRecord = {
+  geometry: MultiPolygonGeom | null;
+  properties: Record<string, string | number | null>;
+};
 
 export type ShapefileParts = { shp: Buffer; shx: Buffer; dbf: Buffer; prj: string; cpg: string };
 
@@ -155,7 +158,9 @@ function utf8Cut(text: string, max: number): Buffer {
 function numberText(value: number, field: Extract<DbfField, { type: 'N' }>): string {
   const text = value.toFixed(field.decimals);
   if (text.length > field.width) {
-    throw new RangeError(`${field.key} = ${value} does not fit a numeric field ${field.width} characters wide`);
+    throw new RangeError(
+      `${field.key} = ${value} does not fit a numeric field ${field.width} characters wide`,
+    );
   }
   return text.padStart(field.width, ' ');
 }
@@ -193,7 +198,8 @@ function writeDbf(records: ShapefileRecord[], fields: DbfField[], names: string[
     fields.forEach((f, fi) => {
       const v = r.properties[f.key];
       if (v != null && f.type === 'C') utf8Cut(String(v), widths[fi]).copy(b, at);
-      if (v != null && f.type === 'N' && Number.isFinite(Number(v))) b.write(numberText(Number(v), f), at, 'ascii');
+      if (v != null && f.type === 'N' && Number.isFinite(Number(v)))
+        b.write(numberText(Number(v), f), at, 'ascii');
       at += widths[fi];
     });
   });
@@ -208,7 +214,12 @@ export function writePolygonShapefile(
   { today = new Date() }: { today?: Date } = {},
 ): ShapefileParts {
   const names = dbfFieldNames(fields.map((f) => f.key));
-  return { ...writeShpShx(records), dbf: writeDbf(records, fields, names, today), prj: WGS84_PRJ, cpg: 'UTF-8' };
+  return {
+    ...writeShpShx(records),
+    dbf: writeDbf(records, fields, names, today),
+    prj: WGS84_PRJ,
+    cpg: 'UTF-8',
+  };
 }
 
 /** The five parts zipped under one base name (`<base>.shp`, `.shx`, `.dbf`, `.prj`, `.cpg`). */
