@@ -20,7 +20,8 @@ export function replyFor(err: unknown): WorkerReply {
   return { ok: false, code: 'unreadable_file', message: `The file could not be read${detail ? `: ${detail}` : ''}` };
 }
 
-parentPort?.once('message', async (job: ParseJob) => {
+// One job at a time; the runner keeps the worker for the next job, or ends it after a time limit.
+parentPort?.on('message', async (job: ParseJob) => {
   let reply: WorkerReply;
   try {
     reply = { ok: true, outcome: await readUpload(job) };

@@ -40,7 +40,8 @@ export function normaliseFeatures(input: unknown): { features: NormalFeature[]; 
   }
   for (const [what, n] of ctx.dropped) ctx.warnings.push(`${n} feature part${n === 1 ? '' : 's'} ${what} skipped`);
   if (ctx.unclosed) {
-    ctx.warnings.push(`${ctx.unclosed} ring${ctx.unclosed === 1 ? ' was' : 's were'} not closed and ${ctx.unclosed === 1 ? 'was' : 'were'} closed`);
+    const n = ctx.unclosed;
+    ctx.warnings.push(`${n} ring${n === 1 ? ' was' : 's were'} not closed: the first position was repeated at the end`);
   }
   return { features, warnings: ctx.warnings };
 }

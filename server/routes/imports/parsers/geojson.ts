@@ -9,10 +9,8 @@ export function readGeoJson(bytes: Uint8Array, name: string): ReadResult {
   let data: unknown;
   try {
     data = JSON.parse(text);
-  } catch (err) {
-    const pos = /position (\d+)/.exec((err as Error).message);
-    const where = pos ? ` near line ${lineAt(text, Number(pos[1]))}` : '';
-    throw new FileReadError(`The file is not valid JSON${where}`);
+  } catch {
+    throw new FileReadError(`The file is not valid JSON: the error is at line ${lineAt(text, jsonErrorOffset(text))}`);
   }
   const code = legacyCrsCode(data);
   const crs =
@@ -25,3 +23,64 @@ export function readGeoJson(bytes: Uint8Array, name: string): ReadResult {
 }
 
 export const stem = (fileName: string) => (fileName.split('/').pop() ?? fileName).replace(/\.[^.]*$/, '') || 'layer';
+
+/**
+ * The offset of the first character at which `text` stops being JSON (RFC 8259), for the message: Node's
+ * JSON.parse does not say where. A plain scanner, run only after JSON.parse has failed.
+ */
+export function jsonErrorOffset(text: string): number {
+  let i = 0;
+  const ws = () => {
+    while (i < text.length && ' \t\n\r'.includes(text[i])) i++;
+  };
+  const fail = (): never => {
+    throw i;
+  };
+  const value = (depth: number): void => {
+    ws();
+    if (depth > 1000) fail();
+    const c = text[i];
+    if (c === '{' || c === '[') {
+      const close = c === '{' ? '}' : ']';
+      i++;
+      ws();
+      if (text[i] === close) return void i++;
+      for (;;) {
+        if (c === '{') {
+          ws();
+          if (text[i] !== '"') fail();
+          string();
+          ws();
+          if (text[i] !== ':') fail();
+          i++;
+        }
+        value(depth + 1);
+        ws();
+        if (text[i] === ',') i++;
+        else if (text[i] === close) return void i++;
+        else fail();
+      }
+    }
+    if (c === '"') return string();
+    const m = /^(-?(0|[1-9]\d*)(\.\d+)?([eE][-+]?\d+)?|true|false|null)/.exec(text.slice(i, i + 400));
+    if (!m) fail();
+    i += m![0].length;
+  };
+  const string = () => {
+    i++;
+    while (i < text.length && text[i] !== '"') {
+      if (text[i] === '\\') i++;
+      else if (text.charCodeAt(i) < 0x20) fail();
+      i++;
+    }
+    if (i >= text.length) fail();
+    i++;
+  };
+  try {
+    value(0);
+    ws();
+    return i;
+  } catch (at) {
+    return typeof at === 'number' ? at : i;
+  }
+}
