@@ -17,6 +17,7 @@ const REGISTER: NavGroup = {
     { to: '/farms', label: 'Farms' },
     { to: '/fields', label: 'Fields' },
     { to: '/seasons', label: 'Crop seasons' },
+    { to: '/zone-maps', label: 'Zone maps' },
     { to: '/planters', label: 'Planters' },
   ],
 };

@@ -12,6 +12,8 @@ import { seasonsQueryOptions, useSeasons } from '@/features/register/api/get-sea
 import { BoundaryOutline } from '@/features/register/components/boundary-outline';
 import { SeasonTable } from '@/features/register/components/season-table';
 import { RecordHeader } from '@/features/register/components/record-header';
+import { zoneMapsQueryOptions, useZoneMaps } from '@/features/zones/api/get-zone-maps';
+import { ZoneMapTable } from '@/features/zones/components/zone-map-table';
 import { formatArea, formatNumber } from '@/lib/format';
 import { canEditRegister } from '@/lib/permissions';
 import { useUnitSystem, useViewer } from '@/lib/viewer';
@@ -22,6 +24,7 @@ export const loader =
     const fieldId = params.id ?? '';
     void qc.prefetchQuery(fieldQueryOptions(fieldId));
     void qc.prefetchQuery(seasonsQueryOptions({ fieldId }));
+    void qc.prefetchQuery(zoneMapsQueryOptions({ fieldId }));
     return null;
   };
 
@@ -30,6 +33,7 @@ function FieldPage({ field }: { field: Field }) {
   const system = useUnitSystem();
   const canEdit = canEditRegister(me);
   const seasons = useSeasons({ fieldId: field.id });
+  const zoneMaps = useZoneMaps({ fieldId: field.id });
   const other = system === 'imperial' ? 'metric' : 'imperial';
   return (
     <>
@@ -76,6 +80,18 @@ function FieldPage({ field }: { field: Field }) {
               No boundary is on file. Zones and rates are planned inside a boundary, so this field needs one first.
             </p>
           )}
+          {canEdit && !field.archivedAt ? (
+            <div className="mt-3 flex flex-wrap gap-2">
+              <ButtonLink variant={field.boundary ? 'secondary' : 'primary'} size="sm" to={`/fields/${field.id}/boundary`}>
+                {field.boundary ? 'Change the boundary' : 'Bring in a boundary'}
+              </ButtonLink>
+              {field.boundary ? (
+                <ButtonLink size="sm" to={`/fields/${field.id}/boundary?how=draw`}>
+                  Edit it on the map
+                </ButtonLink>
+              ) : null}
+            </div>
+          ) : null}
         </div>
         {field.boundary ? (
           <figure className="shrink-0">
@@ -90,6 +106,30 @@ function FieldPage({ field }: { field: Field }) {
       >
         <QueryState query={seasons}>
           {(data) => <SeasonTable seasons={data} canEdit={canEdit} hiddenColumns={['field', 'farm', 'grower']} />}
+        </QueryState>
+      </Section>
+      <Section
+        title="Zone maps"
+        actions={
+          canEdit && field.boundary && !field.archivedAt ? (
+            <ButtonLink size="sm" to={`/zone-maps/new?fieldId=${field.id}`}>
+              New zone map
+            </ButtonLink>
+          ) : null
+        }
+      >
+        <QueryState query={zoneMaps}>
+          {(items) => (
+            <ZoneMapTable
+              items={items}
+              hiddenColumns={['field']}
+              empty={
+                field.boundary
+                  ? 'Management zones for a crop season of this field: from a file, from data, or drawn.'
+                  : 'Zone maps need a boundary: bring one in first.'
+              }
+            />
+          )}
         </QueryState>
       </Section>
     </>
