@@ -15,6 +15,9 @@ import {
   multi,
   polygon,
   rel,
+  S,
+  SIDE,
+  W,
   tidy,
   totalZoneArea,
   verticalLine,
@@ -441,5 +444,125 @@ describe('optimistic locking', () => {
       expect(res.body.error.code).toBe('stale');
     }
     expect(expectMap(await agro.get(`/api/zone-maps/${map.id}`))).toEqual(map);
+  });
+});
+
+describe('bad zone geometry', () => {
+  const p = (lonLat: number[][]) => lonLat.map(([x, y]) => [W + x * SIDE, S + y * SIDE]);
+  /** Our own cases, in the categories of RELIABILITY.md's bad-input corpus. */
+  const CASES: Record<string, unknown> = {
+    'bow-tie': polygon(
+      p([
+        [0.1, 0.1],
+        [0.9, 0.9],
+        [0.9, 0.1],
+        [0.1, 0.9],
+        [0.1, 0.1],
+      ]),
+    ),
+    spike: polygon(
+      p([
+        [0.1, 0.1],
+        [0.5, 0.1],
+        [0.5, 0.5],
+        [0.5, 0.05],
+        [0.5, 0.1],
+        [0.9, 0.1],
+        [0.9, 0.9],
+        [0.1, 0.1],
+      ]),
+    ),
+    'unclosed ring': polygon(
+      p([
+        [0.1, 0.1],
+        [0.9, 0.1],
+        [0.9, 0.9],
+      ]),
+    ),
+    'too few points': polygon(
+      p([
+        [0.1, 0.1],
+        [0.9, 0.1],
+        [0.1, 0.1],
+      ]),
+    ),
+    'empty polygon': { type: 'Polygon', coordinates: [] },
+    'empty ring': { type: 'Polygon', coordinates: [[]] },
+    'empty multipolygon': { type: 'MultiPolygon', coordinates: [] },
+    'string coordinate': {
+      type: 'Polygon',
+      coordinates: [
+        [
+          ['-93.6', 42],
+          [-93.59, 42],
+          [-93.59, 42.01],
+          ['-93.6', 42],
+        ],
+      ],
+    },
+    'null coordinate': {
+      type: 'Polygon',
+      coordinates: [
+        [
+          [null, 42],
+          [-93.59, 42],
+          [-93.59, 42.01],
+          [null, 42],
+        ],
+      ],
+    },
+    'longitude over 180': polygon([
+      [181, 42],
+      [182, 42],
+      [182, 43],
+      [181, 42],
+    ]),
+    'projected metres': polygon([
+      [448_000, 4_650_000],
+      [448_400, 4_650_000],
+      [448_400, 4_650_400],
+      [448_000, 4_650_000],
+    ]),
+    'hole outside shell': polygon(cell(0.1, 0.1, 0.4, 0.4), cell(0.6, 0.6, 0.9, 0.9).reverse()),
+    'overlapping parts': multi([cell(0.1, 0.1, 0.6, 0.6)], [cell(0.4, 0.4, 0.9, 0.9)]),
+    'a point': { type: 'Point', coordinates: [-93.598, 42.002] },
+  };
+
+  /** The status each case must get: 400 when the request's shape is wrong, 422 when PostGIS or clipping refuses it. */
+  const STATUS: Record<string, number> = {
+    'string coordinate': 400,
+    'null coordinate': 400,
+    'a point': 400,
+  };
+
+  it.each(Object.keys(CASES))(
+    '%s: a clear 4xx naming the geometry, nothing stored, never a 500',
+    async (name) => {
+      const map = await createMap(agro, w, `Bad ${name}`);
+      const res = await agro.post(`/api/zone-maps/${map.id}/zones`, {
+        version: map.version,
+        name: 'Bad',
+        geometry: CASES[name],
+        classValue: null,
+        productivityIndex: null,
+      });
+      expect(res.status, JSON.stringify(res.body).slice(0, 300)).toBe(STATUS[name] ?? 422);
+      expect(res.body.error.details[0].path[0]).toBe('geometry');
+      expect(expectMap(await agro.get(`/api/zone-maps/${map.id}`))).toEqual(map);
+    },
+  );
+
+  it('names the reason and the place of an invalid shape', async () => {
+    const map = await createMap(agro, w, 'Bow-tie place');
+    const res = await agro.post(`/api/zone-maps/${map.id}/zones`, {
+      version: map.version,
+      name: 'Bad',
+      geometry: CASES['bow-tie'],
+      classValue: null,
+      productivityIndex: null,
+    });
+    expect(res.status).toBe(422);
+    // The crossing of the bow-tie is the middle of the field (derived from the case above).
+    expect(res.body.error.message).toContain(`${W + SIDE / 2}, ${S + SIDE / 2}`);
   });
 });

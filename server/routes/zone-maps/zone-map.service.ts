@@ -31,13 +31,13 @@ import type {
 } from '../../../shared/schemas/zone-map.schema';
 import {
   analyse,
+  assertValidInput,
   copyZones,
   deleteZoneRow,
   insertZone,
   toGeoFeature,
   updateZoneRow,
   zoneRowsOf,
-  type ZoneGeoFeature,
   type ZoneInput,
   type ZoneRow,
 } from './zone-store';
@@ -289,38 +289,42 @@ function zoneIn(zones: ZoneRow[], zoneId: string, path = 'zoneId'): ZoneRow {
   return zone;
 }
 
-/** A geometry clipped to the boundary through shared/geo; `place` names it if nothing is left. */
-function clipped(
-  geometry: MultiPolygon,
-  boundary: MultiPolygon,
-  props: Omit<ZoneGeoFeature['properties'], 'isDefault'> & { isDefault?: boolean },
-) {
-  const [zone] = clipToBoundary(
-    [{ type: 'Feature', properties: { isDefault: false, ...props }, geometry }],
-    boundary,
-  ) as ZoneGeoFeature[];
-  return zone?.geometry ?? { type: 'MultiPolygon' as const, coordinates: [] };
-}
-
-/** A shared/geo refusal (a line that does not cross a zone, say) is the user's input, not our failure. */
+/**
+ * A shared/geo refusal (a line that does not cross a zone, say) is the user's input, not our failure; a
+ * clipping library that gives up on a shape is reported the same way, never as a 500.
+ */
 function geoInput<T>(fn: () => T, path: string): T {
   try {
     return fn();
   } catch (err) {
-    if (err instanceof GeoInputError)
+    if (err instanceof GeoInputError) {
       throw new DomainError('invalid_geometry', err.message, [{ path: [path], message: err.message }]);
-    throw err;
+    }
+    console.warn('[zone-maps] polygon clipping failed:', err);
+    const message =
+      'This shape could not be worked out: simplify it (fewer, farther-apart vertices) and try again';
+    throw new DomainError('invalid_geometry', message, [{ path: [path], message }]);
   }
+}
+
+/** A drawn or edited geometry: valid as PostGIS decides (else a 422 naming why and where), clipped to the boundary. */
+async function drawnGeometry(
+  geometry: z.output<typeof addZoneSchema>['geometry'],
+  boundary: MultiPolygon,
+  t: Transaction,
+) {
+  const multi = toMultiPolygon(geometry);
+  await assertValidInput(multi, t);
+  const [zone] = geoInput(
+    () => clipToBoundary([{ type: 'Feature', properties: { id: 'drawn' }, geometry: multi }], boundary),
+    'geometry',
+  );
+  return zone?.geometry ?? { type: 'MultiPolygon' as const, coordinates: [] };
 }
 
 export function addZone(actor: Actor, id: string, input: z.output<typeof addZoneSchema>) {
   return edit(actor, id, input.version, async ({ t, map, boundary }) => {
-    const geometry = clipped(toMultiPolygon(input.geometry), boundary, {
-      id: 'new',
-      name: input.name,
-      classValue: input.classValue,
-      productivityIndex: input.productivityIndex,
-    });
+    const geometry = await drawnGeometry(input.geometry, boundary, t);
     await insertZone(
       t,
       map,
@@ -350,9 +354,7 @@ export function updateZone(
       classValue: input.classValue,
       productivityIndex: input.productivityIndex,
     };
-    const geometry = input.geometry
-      ? clipped(toMultiPolygon(input.geometry), boundary, { ...attrs, id: zone.id })
-      : undefined;
+    const geometry = input.geometry ? await drawnGeometry(input.geometry, boundary, t) : undefined;
     await updateZoneRow(t, zone.id, { ...attrs, geometry }, `Zone "${input.name}"`);
   });
 }

@@ -26,6 +26,42 @@ export type ZoneRow = ZoneGeoProps & {
   geometry: MultiPolygon;
 };
 
+/**
+ * A geometry sent by a person (drawn or edited) as PostGIS reads it: refused with a 422 that names the reason
+ * and the place when it cannot be read, is empty, or is not valid (a bow-tie, a hole outside its shell…).
+ */
+export async function assertValidInput(geometry: unknown, transaction?: Transaction, path = 'geometry') {
+  const refuse = (message: string) =>
+    new DomainError('invalid_geometry', message, [{ path: [path], message }]);
+  let row: { valid: boolean; reason: string; location: string | null; empty: boolean } | undefined;
+  try {
+    [row] = await sequelize().query<{
+      valid: boolean;
+      reason: string;
+      location: string | null;
+      empty: boolean;
+    }>(
+      `SELECT ST_IsValid(g) AS valid, ST_IsValidReason(g) AS reason, ST_AsText((ST_IsValidDetail(g)).location) AS location,
+              ST_IsEmpty(g) AS empty
+         FROM (SELECT ST_Force2D(ST_SetSRID(ST_GeomFromGeoJSON(:geojson), 4326)) AS g) s`,
+      { replacements: { geojson: JSON.stringify(geometry) }, type: QueryTypes.SELECT, transaction },
+    );
+  } catch (err) {
+    const detail = err instanceof Error ? err.message.replace(/^.*?:\s*/, '') : '';
+    throw refuse(`The zone's shape cannot be read as a polygon${detail ? `: ${detail}` : ''}`);
+  }
+  if (!row || row.empty) throw refuse("The zone's shape is empty");
+  if (!row.valid) {
+    const place = row.location
+      ? ` near ${row.location
+          .replace(/^POINT\(|\)$/g, '')
+          .split(' ')
+          .join(', ')} (lon, lat)`
+      : '';
+    throw refuse(`The zone's shape is not a valid polygon: ${row.reason.replace(/\[.*\]$/, '')}${place}`);
+  }
+}
+
 export type ZoneInput = Omit<ZoneRow, 'id' | 'areaM2' | 'sortOrder'> & { sortOrder?: number };
 
 const sequelize = () => Zone.sequelize!;
