@@ -10,6 +10,9 @@ import {
   splitZoneSchema,
   updateZoneSchema,
   zoneMapExportQuerySchema,
+  zoneMapFromImportSchema,
+  zonesFromPointsPreviewRequestSchema,
+  zonesFromPointsSchema,
   zoneMapListQuerySchema,
   zoneMapVersionOnlySchema,
   zoneMapVersionQuerySchema,
@@ -18,6 +21,8 @@ import { actorOf, handle } from '../../middleware/handle';
 import { requireRole, requireSignIn } from '../../middleware/authenticate';
 import * as maps from './zone-map.service';
 import { exportZoneMap } from './zone-map.export';
+import * as sources from './zone-map-sources.service';
+import { importErrors } from '../imports/import.router';
 
 const zoneParamsSchema = z.object({ id: idSchema, zoneId: idSchema });
 
@@ -57,6 +62,27 @@ export function zoneMapRouter() {
     write,
     handle({ body: createZoneMapSchema }, async ({ req, res, body }) => {
       res.status(201).json(await maps.createZoneMap(actorOf(req), body));
+    }),
+  );
+  router.post(
+    '/from-import',
+    write,
+    handle({ body: zoneMapFromImportSchema }, async ({ req, res, body }) => {
+      res.status(201).json(await sources.createFromImport(actorOf(req), body));
+    }),
+  );
+  router.post(
+    '/from-points/preview',
+    write,
+    handle({ body: zonesFromPointsPreviewRequestSchema }, ({ req, body }) =>
+      sources.previewFromPoints(actorOf(req), body),
+    ),
+  );
+  router.post(
+    '/from-points',
+    write,
+    handle({ body: zonesFromPointsSchema }, async ({ req, res, body }) => {
+      res.status(201).json(await sources.createFromPoints(actorOf(req), body));
     }),
   );
   router.post(
@@ -116,5 +142,7 @@ export function zoneMapRouter() {
       maps.fillGaps(actorOf(req), params.id, body.version),
     ),
   );
+  // Errors of reading an import (unreadable file, coordinates not chosen) keep the statuses the import routes give.
+  router.use(importErrors);
   return router;
 }
