@@ -30,6 +30,10 @@ export function RecordSelect({
   return (
     <FormField label={label} error={error} hint={hint}>
       <Select
+        // The form writes its value into the select when the select mounts; an id whose option was not
+        // there yet (the list still loading, or cached from before the record was added) would show as the
+        // placeholder. Drawing the select afresh when its options change writes the value in again.
+        key={options.map((o) => o.id).join(' ')}
         {...registration}
         disabled={loading || registration.disabled}
         placeholder={loading ? 'Loading…' : placeholder}
