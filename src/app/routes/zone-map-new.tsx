@@ -120,7 +120,7 @@ function NewZoneMap({ field, initialSeasonId }: { field: Field; initialSeasonId:
               {preview && preview.features.length > 0 ? (
                 <>
                   <FeaturePicker preview={preview} system={system} chosen={chosen} onChange={setChosen} context={field.boundary} />
-                  <ZonesFromImportForm preview={preview} chosen={chosen} fieldId={field.id} basics={basics} onCreated={created} />
+                  <ZonesFromImportForm preview={preview} chosen={chosen} fieldId={field.id} fieldAreaM2={field.areaM2} basics={basics} onCreated={created} />
                 </>
               ) : null}
             </>

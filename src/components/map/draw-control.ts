@@ -83,7 +83,7 @@ export class DrawSession {
     if (request.mode === 'polygon' || request.mode === 'line') {
       on('draw.create', (e) => {
         const g = e.features?.[0]?.geometry;
-        draw.deleteAll();
+        // The page ends the session (and removes the sketch) once it has the shape.
         if (request.mode === 'polygon' && g?.type === 'Polygon') request.onDone(g as Polygon);
         if (request.mode === 'line' && g?.type === 'LineString') request.onDone(g as LineString);
       });

@@ -100,15 +100,20 @@ export function ZoneMapEditor({ map, system, canEdit }: { map: ZoneMap; system: 
       ? {
           mode: 'polygon',
           hint: 'Click to place the corners of the new zone; click the first corner again, or press Finish. It is cut to the boundary.',
-          onDone: (geometry) =>
-            run(add, { mapId: map.id, input: { version: map.version, name: nextZoneName(map), geometry, classValue: null, productivityIndex: null } }, newIds),
+          onDone: (geometry) => {
+            setTool('none');
+            run(add, { mapId: map.id, input: { version: map.version, name: nextZoneName(map), geometry, classValue: null, productivityIndex: null } }, newIds);
+          },
           onCancel: () => setTool('none'),
         }
       : tool === 'split' && one
         ? {
             mode: 'line',
             hint: `Draw a line right across ${one.name}: click to place points, then click the last point again, or press Finish.`,
-            onDone: (line) => run(split, { mapId: map.id, input: { version: map.version, zoneId: one.id, line } }, (next) => [one.id, ...newIds(next)]),
+            onDone: (line) => {
+              setTool('none');
+              run(split, { mapId: map.id, input: { version: map.version, zoneId: one.id, line } }, (next) => [one.id, ...newIds(next)]);
+            },
             onCancel: () => setTool('none'),
           }
         : tool === 'corners' && outline

@@ -29,12 +29,14 @@ export function ZonesFromImportForm({
   preview,
   chosen,
   fieldId,
+  fieldAreaM2,
   basics,
   onCreated,
 }: {
   preview: ImportPreview;
   chosen: number[];
   fieldId: string;
+  fieldAreaM2: number | null;
   basics: ZoneMapBasics;
   onCreated: (m: ZoneMap) => void;
 }) {
@@ -42,7 +44,10 @@ export function ZonesFromImportForm({
   const [nameProperty, setNameProperty] = useState(() => guess(names, /^(name|zone|label)/i));
   const [classProperty, setClassProperty] = useState(() => guess(numeric, /class|zone/i));
   const [indexProperty, setIndexProperty] = useState(() => guess(numeric, /index|prod|pi$/i));
-  const [fillGaps, setFillGaps] = useState(true);
+  // Offered ticked when the chosen features leave more than 1 % of the field uncovered (not for slivers).
+  const chosenM2 = preview.features.filter((f) => chosen.includes(f.index)).reduce((sum, f) => sum + (f.repair?.areaM2 ?? f.areaM2), 0);
+  const [fillTouched, setFillGaps] = useState<boolean | null>(null);
+  const fillGaps = fillTouched ?? (fieldAreaM2 != null && fieldAreaM2 - chosenM2 > 0.01 * fieldAreaM2);
   const [problem, setProblem] = useState<string | null>(null);
   const create = useCreateZoneMapFromImport();
   const invalid = preview.features.filter((f) => chosen.includes(f.index) && !f.validity.valid);
