@@ -98,6 +98,13 @@ describe('the bad-input corpus (RELIABILITY.md), each ending in a clear answer',
     expect(p.warnings.length).toBeGreaterThan(0);
   });
 
+  it('a legacy crs Sowright cannot reproject: the user is asked, with a warning naming the code', async () => {
+    const lambert = [[652000, 6862000], [653000, 6862000], [653000, 6863000], [652000, 6862000]];
+    const p = await importOk({ type: 'FeatureCollection', crs: { type: 'name', properties: { name: 'urn:ogc:def:crs:EPSG::2154' } }, features: [{ type: 'Feature', properties: {}, geometry: polygon(lambert) }] });
+    expect(p.coordinates.kind).toBe('projected');
+    expect(p.warnings.some((m) => m.includes('EPSG:2154'))).toBe(true);
+  });
+
   it('empty geometries: a file of nothing but empties is refused; empties beside a polygon are skipped with a warning', async () => {
     await expectRefused({ type: 'FeatureCollection', features: [{ type: 'Feature', properties: {}, geometry: { type: 'Polygon', coordinates: [] } }] }, /no polygons/);
     const p = await importOk({

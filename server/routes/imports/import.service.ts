@@ -65,7 +65,7 @@ export async function checkGeometries(geometries: MultiPolygon[]): Promise<Check
     WITH input AS (
       SELECT ord AS i, ST_SetSRID(ST_GeomFromGeoJSON(f), 4326) AS g
         FROM jsonb_array_elements($1::jsonb) WITH ORDINALITY AS t(f, ord)
-    ), d AS (
+    ), d AS MATERIALIZED (
       SELECT i, g, ST_IsValidDetail(g) AS det FROM input
     ), r AS (
       SELECT i, g, (det).valid AS valid, (det).location AS loc,

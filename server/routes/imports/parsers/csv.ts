@@ -1,6 +1,6 @@
 import Papa from 'papaparse';
 import { FileReadError } from '../import-errors';
-import { PointTable, toNumber } from './point-table';
+import { toNumber } from './point-table';
 import { decodeText, lineAt } from './text';
 import { stem } from './geojson';
 import type { ReadResult } from './types';
@@ -21,30 +21,8 @@ function findColumn(headers: string[], names: string[]): number {
   return -1;
 }
 
-/**
- * A CSV of points with longitude and latitude columns (names like lon/long/longitude/x and lat/latitude/y)
- * and any other columns as attributes. Refuses over-long lines, unterminated quotes and duplicate column
- * names, naming the line. Rows without readable coordinates are skipped with a warning naming them.
- */
-export function readCsv(bytes: Uint8Array, name: string): ReadResult {
-  const text = decodeText(bytes, 'CSV file');
-  let lineStart = 0;
-  let line = 1;
-  for (let i = 0; i <= text.length; i++) {
-    if (i === text.length || text.charCodeAt(i) === 10) {
-      if (i - lineStart > MAX_CSV_LINE) throw new FileReadError(`Line ${line} is longer than ${MAX_CSV_LINE} characters`);
-      lineStart = i + 1;
-      line++;
-    }
-  }
-  const parsed = Papa.parse<string[]>(text, { skipEmptyLines: 'greedy' });
-  const quoteError = parsed.errors.find((e) => e.type === 'Quotes');
-  if (quoteError) {
-    const at = quoteError.index !== undefined ? lineAt(text, quoteError.index) : (quoteError.row ?? 0) + 1;
-    throw new FileReadError(`Line ${at} has a quoted value that is never closed`);
-  }
-  const [header, ...rows] = parsed.data;
-  if (!header || rows.length === 0) throw new FileReadError('The CSV has no rows below its header');
+/** Column names from the header row: refuses duplicates and a header without longitude and latitude. */
+function readHeader(header: string[]) {
   const headers = header.map((h, i) => h.trim() || `column ${i + 1}`);
   const seen = new Map<string, number>();
   headers.forEach((h, i) => {
@@ -62,31 +40,97 @@ export function readCsv(bytes: Uint8Array, name: string): ReadResult {
         .join(', ')}`,
     );
   }
-  const table = new PointTable();
+  return { headers, lonCol, latCol };
+}
+
+/**
+ * A CSV of points with longitude and latitude columns (names like lon/long/longitude/x and lat/latitude/y)
+ * and any other columns as attributes. Refuses over-long lines, unterminated quotes and duplicate column
+ * names, naming the line. Rows without readable coordinates are skipped with a warning naming them.
+ */
+export function readCsv(bytes: Uint8Array, name: string): ReadResult {
+  const text = decodeText(bytes, 'CSV file');
+  let lineStart = 0;
+  let line = 1;
+  for (let i = 0; i <= text.length; i++) {
+    if (i === text.length || text.charCodeAt(i) === 10) {
+      if (i - lineStart > MAX_CSV_LINE) throw new FileReadError(`Line ${line} is longer than ${MAX_CSV_LINE} characters`);
+      lineStart = i + 1;
+      line++;
+    }
+  }
+  // Row by row (papaparse's step): no array of every row is ever held, and values go straight into typed
+  // arrays sized by the line count, so 200 000 rows do not churn the heap.
+  const capacity = line;
+  let headers: string[] | null = null;
+  let lonCol = -1;
+  let latCol = -1;
+  let attrs: { name: string; i: number }[] = [];
+  const x = new Float64Array(capacity);
+  const y = new Float64Array(capacity);
+  let values: Float64Array[] = [];
+  let texts: number[] = [];
   const skipped: number[] = [];
   let skippedCount = 0;
-  rows.forEach((row, r) => {
-    const x = toNumber(row[lonCol]);
-    const y = toNumber(row[latCol]);
-    if (typeof x !== 'number' || typeof y !== 'number') {
-      skippedCount++;
-      if (skipped.length < 5) skipped.push(r + 2);
-      return;
-    }
-    const props: Record<string, unknown> = {};
-    headers.forEach((h, i) => {
-      if (i !== lonCol && i !== latCol) props[h] = row[i];
-    });
-    table.add(x, y, props);
+  let kept = 0;
+  let rowNo = 0;
+  let failure: FileReadError | null = null;
+  Papa.parse<string[]>(text, {
+    skipEmptyLines: 'greedy',
+    step: (results, p) => {
+      const quoteError = results.errors.find((e) => e.type === 'Quotes');
+      if (quoteError) {
+        const at = quoteError.index !== undefined ? lineAt(text, quoteError.index) : rowNo + 1;
+        failure = new FileReadError(`Line ${at} has a quoted value that is never closed`);
+        return p.abort();
+      }
+      const row = results.data;
+      rowNo++;
+      if (!headers) {
+        try {
+          ({ headers, lonCol, latCol } = readHeader(row));
+        } catch (err) {
+          failure = err as FileReadError;
+          return p.abort();
+        }
+        attrs = headers.map((name, i) => ({ name, i })).filter(({ i }) => i !== lonCol && i !== latCol);
+        values = attrs.map(() => new Float64Array(capacity));
+        texts = attrs.map(() => 0);
+        return;
+      }
+      const lon = toNumber(row[lonCol]);
+      const lat = toNumber(row[latCol]);
+      if (typeof lon !== 'number' || typeof lat !== 'number') {
+        skippedCount++;
+        if (skipped.length < 5) skipped.push(rowNo);
+        return;
+      }
+      x[kept] = lon;
+      y[kept] = lat;
+      for (let a = 0; a < attrs.length; a++) {
+        const v = toNumber(row[attrs[a].i]);
+        if (v === 'text') texts[a]++;
+        values[a][kept] = typeof v === 'number' ? v : Number.NaN;
+      }
+      kept++;
+    },
   });
+  if (failure) throw failure;
+  if (!headers || rowNo < 2) throw new FileReadError('The CSV has no rows below its header');
+  const names: string[] = headers;
   const warnings: string[] = [];
   if (skippedCount) {
     warnings.push(`${skippedCount} row${skippedCount === 1 ? '' : 's'} without readable coordinates skipped (row ${skipped.join(', ')}${skippedCount > skipped.length ? ', …' : ''}; the header is row 1)`);
   }
-  if (table.length === 0) throw new FileReadError('No row of the CSV has readable coordinates');
+  if (kept === 0) throw new FileReadError('No row of the CSV has readable coordinates');
+  const points = {
+    x: x.slice(0, kept),
+    y: y.slice(0, kept),
+    columns: attrs.map((c, a) => ({ name: c.name, values: values[a].slice(0, kept), texts: texts[a] })),
+  };
   return {
     format: 'csv',
-    layers: [{ name: stem(name), data: null, points: table.toColumns(), crs: { kind: 'wgs84', source: `CSV columns "${headers[lonCol]}" and "${headers[latCol]}"` }, geometryType: 'Point' }],
+    layers: [{ name: stem(name), data: null, points, crs: { kind: 'wgs84', source: `CSV columns "${names[lonCol]}" and "${names[latCol]}"` }, geometryType: 'Point' }],
     warnings,
   };
 }

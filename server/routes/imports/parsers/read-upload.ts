@@ -1,4 +1,5 @@
-import type { MultiPolygon, Position } from 'geojson';
+import type { Geometry, MultiPoint, MultiPolygon, Position } from 'geojson';
+import { GeoInputError } from '../../../../shared/geo/geo-input-error';
 import { normaliseFeatures } from '../../../../shared/geo/normalise-features';
 import {
   assertDegreesInRange,
@@ -170,11 +171,13 @@ export async function readUpload(job: ParseJob): Promise<ParseOutcome> {
     offset += layers[li].featureCount;
   }
 
-  const asFeatures = points ? [{ geometry: { type: 'MultiPoint' as const, coordinates: pointPositions(points) } }] : features;
+  // Points are judged by their bounding box (two corners stand for them all); polygons feature by feature.
+  const asFeatures = points ? [{ geometry: cornersOf(points) }] : features;
   const space = detectCoordinateSpace(asFeatures);
   if (space.kind === 'projected' && !needsChoice) {
     // Beyond ±180/±90: bad degrees (refused, naming the place) or metres labelled as degrees (ask).
-    assertDegreesInRange(points ? pointFeatures(points) : features);
+    if (points) assertPointDegrees(points);
+    else assertDegreesInRange(features);
     needsChoice = true;
     warnings.push('The coordinates are not longitude and latitude degrees (some lie beyond ±180 / ±90): choose the coordinate system they are in');
   }
@@ -186,7 +189,7 @@ export async function readUpload(job: ParseJob): Promise<ParseOutcome> {
     sources.clear();
     sources.add(`${job.crsCode}, as you chose`);
     needsChoice = false;
-    assertWorld(points ? pointFeatures(points) : features, job.crsCode);
+    assertWorld(points ? [{ index: 0, geometry: cornersOf(points) }] : features, job.crsCode);
   } else if (needsChoice) {
     const bbox = (space.kind === 'projected' ? space.bbox : bboxOf(asFeatures)) ?? [0, 0, 0, 0];
     const candidates = rankCandidates(bbox, job.reference);
@@ -204,7 +207,7 @@ export async function readUpload(job: ParseJob): Promise<ParseOutcome> {
       warnings,
     };
   } else {
-    assertWorld(points ? pointFeatures(points) : features, null);
+    assertWorld(points ? [{ index: 0, geometry: cornersOf(points) }] : features, null);
   }
   return {
     format: read.format,
@@ -220,7 +223,7 @@ export async function readUpload(job: ParseJob): Promise<ParseOutcome> {
 }
 
 /** After reprojection every coordinate must be finite degrees on the globe, and no shape may span the 180th meridian. */
-function assertWorld(features: PreviewFeatureIn[] | ReturnType<typeof pointFeatures>, code: string | null) {
+function assertWorld(features: { index: number; geometry: Geometry }[], code: string | null) {
   const space = detectCoordinateSpace(features);
   if (space.kind === 'projected' || bboxOf(features)?.some((v) => !Number.isFinite(v))) {
     throw new FileReadError(
@@ -228,11 +231,32 @@ function assertWorld(features: PreviewFeatureIn[] | ReturnType<typeof pointFeatu
       code ? 'unknown_crs' : 'unreadable_file',
     );
   }
-  assertNoAntimeridianCrossing(features);
+  if (features.every((f) => f.geometry.type !== 'MultiPoint')) assertNoAntimeridianCrossing(features);
 }
 
-const pointPositions = (p: PointColumns) => Array.from(p.x, (x, i) => [x, p.y[i]]);
-const pointFeatures = (p: PointColumns) => Array.from(p.x, (x, i) => ({ index: i, geometry: { type: 'Point' as const, coordinates: [x, p.y[i]] } }));
+/** The south-west and north-east corners of the points' bounding box, as a MultiPoint. */
+function cornersOf(p: PointColumns): MultiPoint {
+  let [w, s, e, n] = [Infinity, Infinity, -Infinity, -Infinity];
+  for (let i = 0; i < p.x.length; i++) {
+    const x = p.x[i];
+    const y = p.y[i];
+    if (!(x >= w)) w = x;
+    if (!(x <= e)) e = x;
+    if (!(y >= s)) s = y;
+    if (!(y <= n)) n = y;
+  }
+  return { type: 'MultiPoint', coordinates: p.x.length ? [[w, s], [e, n]] : [] };
+}
+
+/** Like assertDegreesInRange, for point columns: names the first point beyond ±180 / ±90 when the numbers are degree-sized. */
+function assertPointDegrees(p: PointColumns) {
+  const [[w, s], [e, n]] = cornersOf(p).coordinates;
+  if (Math.max(Math.abs(w), Math.abs(e)) > 360 || Math.max(Math.abs(s), Math.abs(n)) > 180) return;
+  for (let i = 0; i < p.x.length; i++) {
+    if (Math.abs(p.x[i]) > 180) throw new GeoInputError(`Longitude ${p.x[i]} of point ${i + 1} lies beyond ±180°`);
+    if (Math.abs(p.y[i]) > 90) throw new GeoInputError(`Latitude ${p.y[i]} of point ${i + 1} lies beyond ±90°`);
+  }
+}
 
 function concatPoints(a: PointColumns, b: PointColumns): PointColumns {
   const join = (u: Float64Array, v: Float64Array) => {
