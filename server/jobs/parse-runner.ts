@@ -3,10 +3,18 @@ import { FileReadError } from '../routes/imports/import-errors';
 import { DomainError } from '../errors';
 import type { ParseJob, ParseOutcome, WorkerReply } from '../routes/imports/parsers/types';
 
-export type ParseLimits = { timeoutMs: number; maxOldGenerationSizeMb: number; maxYoungGenerationSizeMb: number };
+export type ParseLimits = {
+  timeoutMs: number;
+  maxOldGenerationSizeMb: number;
+  maxYoungGenerationSizeMb: number;
+};
 
 /** A file that takes longer or needs more heap than this to read is refused (RELIABILITY.md "Uploads"). */
-export const DEFAULT_PARSE_LIMITS: ParseLimits = { timeoutMs: 20_000, maxOldGenerationSizeMb: 512, maxYoungGenerationSizeMb: 64 };
+export const DEFAULT_PARSE_LIMITS: ParseLimits = {
+  timeoutMs: 20_000,
+  maxOldGenerationSizeMb: 512,
+  maxYoungGenerationSizeMb: 64,
+};
 
 /** At most this many parse workers in this process (the machine has two cores); other jobs wait. */
 const MAX_WORKERS = 2;
@@ -56,7 +64,9 @@ async function acquire(limits: ParseLimits): Promise<Pooled> {
 }
 
 const sameLimits = (a: ParseLimits, b: ParseLimits) =>
-  a.timeoutMs === b.timeoutMs && a.maxOldGenerationSizeMb === b.maxOldGenerationSizeMb && a.maxYoungGenerationSizeMb === b.maxYoungGenerationSizeMb;
+  a.timeoutMs === b.timeoutMs &&
+  a.maxOldGenerationSizeMb === b.maxOldGenerationSizeMb &&
+  a.maxYoungGenerationSizeMb === b.maxYoungGenerationSizeMb;
 
 function release(p: Pooled) {
   p.worker.unref();
@@ -71,7 +81,10 @@ function release(p: Pooled) {
  * long has its worker terminated and is refused, one that needs too much memory likewise. Workers are kept
  * warm for the next job. The job's bytes are copied, so the caller's buffer stays usable.
  */
-export async function parseInWorker(job: ParseJob, limits: ParseLimits = DEFAULT_PARSE_LIMITS): Promise<ParseOutcome> {
+export async function parseInWorker(
+  job: ParseJob,
+  limits: ParseLimits = DEFAULT_PARSE_LIMITS,
+): Promise<ParseOutcome> {
   const p = await acquire(limits);
   const { worker } = p;
   return new Promise<ParseOutcome>((resolve, reject) => {
@@ -88,14 +101,27 @@ export async function parseInWorker(job: ParseJob, limits: ParseLimits = DEFAULT
       fn();
     };
     const timer = setTimeout(
-      () => finish(false, () => reject(new FileReadError(`The file took too long to read (more than ${limits.timeoutMs / 1000} s)`))),
+      () =>
+        finish(false, () =>
+          reject(
+            new FileReadError(`The file took too long to read (more than ${limits.timeoutMs / 1000} s)`),
+          ),
+        ),
       limits.timeoutMs,
     );
     const onMessage = (reply: WorkerReply) =>
-      finish(true, () => (reply.ok ? resolve(reply.outcome) : reject(new DomainError(reply.code, reply.message, reply.details))));
+      finish(true, () =>
+        reply.ok ? resolve(reply.outcome) : reject(new DomainError(reply.code, reply.message, reply.details)),
+      );
     const onError = (err: Error & { code?: string }) =>
       finish(false, () =>
-        reject(new FileReadError(err.code === 'ERR_WORKER_OUT_OF_MEMORY' ? 'The file needs too much memory to read' : 'The file could not be read')),
+        reject(
+          new FileReadError(
+            err.code === 'ERR_WORKER_OUT_OF_MEMORY'
+              ? 'The file needs too much memory to read'
+              : 'The file could not be read',
+          ),
+        ),
       );
     const onExit = () => finish(false, () => reject(new FileReadError('The file could not be read')));
     worker.on('message', onMessage);

@@ -42,10 +42,13 @@ const S_IFLNK = 0o120000;
 export function refuseName(name: string): string | null {
   if (name.length === 0) return 'an entry has no name';
   // eslint-disable-next-line no-control-regex
-  if (/[\u0000-\u001f\u007f]/.test(name)) return `the entry name "${printable(name)}" holds control characters`;
+  if (/[\u0000-\u001f\u007f]/.test(name))
+    return `the entry name "${printable(name)}" holds control characters`;
   if (name.includes('\\')) return `the entry name "${printable(name)}" holds a backslash`;
-  if (name.startsWith('/') || /^[a-zA-Z]:/.test(name)) return `the entry "${printable(name)}" has an absolute path`;
-  if (name.split('/').includes('..')) return `the entry "${printable(name)}" points outside the archive ("..")`;
+  if (name.startsWith('/') || /^[a-zA-Z]:/.test(name))
+    return `the entry "${printable(name)}" has an absolute path`;
+  if (name.split('/').includes('..'))
+    return `the entry "${printable(name)}" points outside the archive ("..")`;
   if (NESTED_ARCHIVE.test(name)) return `the entry "${printable(name)}" is an archive inside the archive`;
   return null;
 }
@@ -55,8 +58,11 @@ const printable = (s: string) => s.replace(/[\u0000-\u001f\u007f]/g, '?').slice(
 
 const open = (buf: Buffer) =>
   new Promise<ZipFile>((resolve, reject) =>
-    yauzl.fromBuffer(buf, { lazyEntries: true, decodeStrings: false, validateEntrySizes: true, autoClose: true }, (err, zip) =>
-      err || !zip ? reject(new ZipRefusedError('The file is not a readable zip archive')) : resolve(zip),
+    yauzl.fromBuffer(
+      buf,
+      { lazyEntries: true, decodeStrings: false, validateEntrySizes: true, autoClose: true },
+      (err, zip) =>
+        err || !zip ? reject(new ZipRefusedError('The file is not a readable zip archive')) : resolve(zip),
     ),
   );
 
@@ -82,7 +88,9 @@ export async function readZip(
   const zip = await open(buf);
   try {
     if (zip.entryCount > limits.maxEntries) {
-      throw new ZipRefusedError(`The zip holds ${zip.entryCount} entries; at most ${limits.maxEntries} are accepted`);
+      throw new ZipRefusedError(
+        `The zip holds ${zip.entryCount} entries; at most ${limits.maxEntries} are accepted`,
+      );
     }
     const entries = await listEntries(zip);
     const seen = new Set<string>();
@@ -93,13 +101,15 @@ export async function readZip(
       const refused = refuseName(name);
       if (refused) throw new ZipRefusedError(`The zip was refused: ${refused}`);
       const key = name.toLowerCase();
-      if (seen.has(key)) throw new ZipRefusedError(`The zip was refused: the name "${printable(name)}" appears twice`);
+      if (seen.has(key))
+        throw new ZipRefusedError(`The zip was refused: the name "${printable(name)}" appears twice`);
       seen.add(key);
       if (((entry.externalFileAttributes >>> 16) & S_IFMT) === S_IFLNK) {
         throw new ZipRefusedError(`The zip was refused: "${printable(name)}" is a symbolic link`);
       }
       if (name.endsWith('/') || !wanted(name)) continue;
-      if (entry.isEncrypted()) throw new ZipRefusedError(`"${printable(name)}" is encrypted; send it without a password`);
+      if (entry.isEncrypted())
+        throw new ZipRefusedError(`"${printable(name)}" is encrypted; send it without a password`);
       checkSize(name, entry.uncompressedSize, entry.compressedSize, limits);
       declaredTotal += entry.uncompressedSize;
       if (declaredTotal > limits.maxTotalBytes) throw new ZipRefusedError(tooLargeTotal(limits));
@@ -123,7 +133,9 @@ export async function readZip(
 
 function checkSize(name: string, size: number, compressed: number, limits: ZipLimits) {
   if (size > limits.maxEntryBytes) {
-    throw new ZipRefusedError(`"${printable(name)}" would inflate to ${mb(size)}; at most ${mb(limits.maxEntryBytes)} per file is accepted`);
+    throw new ZipRefusedError(
+      `"${printable(name)}" would inflate to ${mb(size)}; at most ${mb(limits.maxEntryBytes)} per file is accepted`,
+    );
   }
   if (size > limits.ratioFloorBytes && size / Math.max(compressed, 1) > limits.maxRatio) {
     throw new ZipRefusedError(
@@ -133,7 +145,8 @@ function checkSize(name: string, size: number, compressed: number, limits: ZipLi
 }
 
 const mb = (n: number) => `${(n / 1024 / 1024).toFixed(1)} MB`;
-const tooLargeTotal = (limits: ZipLimits) => `The zip's files would inflate to more than ${mb(limits.maxTotalBytes)} together`;
+const tooLargeTotal = (limits: ZipLimits) =>
+  `The zip's files would inflate to more than ${mb(limits.maxTotalBytes)} together`;
 
 function listEntries(zip: ZipFile): Promise<Entry[]> {
   return new Promise((resolve, reject) => {
@@ -143,15 +156,28 @@ function listEntries(zip: ZipFile): Promise<Entry[]> {
       zip.readEntry();
     });
     zip.on('end', () => resolve(out));
-    zip.on('error', () => reject(new ZipRefusedError('The zip archive is damaged: its directory cannot be read')));
+    zip.on('error', () =>
+      reject(new ZipRefusedError('The zip archive is damaged: its directory cannot be read')),
+    );
     zip.readEntry();
   });
 }
 
-function inflate(zip: ZipFile, entry: Entry, name: string, limits: ZipLimits, budget: number): Promise<Buffer> {
+function inflate(
+  zip: ZipFile,
+  entry: Entry,
+  name: string,
+  limits: ZipLimits,
+  budget: number,
+): Promise<Buffer> {
   return new Promise((resolve, reject) => {
     zip.openReadStream(entry, (err, stream?: Readable) => {
-      if (err || !stream) return reject(new ZipRefusedError(`"${printable(name)}" cannot be read from the zip (damaged or an unusual compression)`));
+      if (err || !stream)
+        return reject(
+          new ZipRefusedError(
+            `"${printable(name)}" cannot be read from the zip (damaged or an unusual compression)`,
+          ),
+        );
       const chunks: Buffer[] = [];
       let count = 0;
       const fail = (message: string) => {
@@ -166,7 +192,9 @@ function inflate(zip: ZipFile, entry: Entry, name: string, limits: ZipLimits, bu
         }
         if (count > budget) return fail(tooLargeTotal(limits));
         if (count > limits.ratioFloorBytes && count / Math.max(entry.compressedSize, 1) > limits.maxRatio) {
-          return fail(`"${printable(name)}" is compressed more than ${limits.maxRatio} to 1: refused as a zip bomb`);
+          return fail(
+            `"${printable(name)}" is compressed more than ${limits.maxRatio} to 1: refused as a zip bomb`,
+          );
         }
         chunks.push(chunk);
       });

@@ -17,7 +17,9 @@ export function eachPosition(g: Geometry | null, visit: (p: Position, place: Geo
       return g.coordinates.forEach((p, coordinate) => visit(p, { coordinate }));
     case 'MultiLineString':
     case 'Polygon':
-      return g.coordinates.forEach((ring, r) => ring.forEach((p, coordinate) => visit(p, { ring: r, coordinate })));
+      return g.coordinates.forEach((ring, r) =>
+        ring.forEach((p, coordinate) => visit(p, { ring: r, coordinate })),
+      );
     case 'MultiPolygon':
       return g.coordinates.forEach((poly, part) =>
         poly.forEach((ring, r) => ring.forEach((p, coordinate) => visit(p, { part, ring: r, coordinate }))),
@@ -52,7 +54,8 @@ export function detectCoordinateSpace(features: WithGeometry[]): CoordinateSpace
   const bbox = bboxOf(features);
   if (!bbox) return { kind: 'geographic' };
   const [w, s, e, n] = bbox;
-  if (Math.max(Math.abs(w), Math.abs(e)) > 180 || Math.max(Math.abs(s), Math.abs(n)) > 90) return { kind: 'projected', bbox };
+  if (Math.max(Math.abs(w), Math.abs(e)) > 180 || Math.max(Math.abs(s), Math.abs(n)) > 90)
+    return { kind: 'projected', bbox };
   return { kind: 'geographic' };
 }
 
@@ -66,12 +69,15 @@ export function assertDegreesInRange(features: (WithGeometry & { index: number }
   const bbox = bboxOf(features);
   if (!bbox) return;
   const [w, s, e, n] = bbox;
-  const looksLikeDegrees = Math.max(Math.abs(w), Math.abs(e)) <= 360 && Math.max(Math.abs(s), Math.abs(n)) <= 180;
+  const looksLikeDegrees =
+    Math.max(Math.abs(w), Math.abs(e)) <= 360 && Math.max(Math.abs(s), Math.abs(n)) <= 180;
   if (!looksLikeDegrees) return;
   for (const f of features) {
     eachPosition(f.geometry, ([x, y], place) => {
-      if (Math.abs(x) > 180) throw new GeoInputError(`Longitude ${x} lies beyond ±180°`, { feature: f.index, ...place });
-      if (Math.abs(y) > 90) throw new GeoInputError(`Latitude ${y} lies beyond ±90°`, { feature: f.index, ...place });
+      if (Math.abs(x) > 180)
+        throw new GeoInputError(`Longitude ${x} lies beyond ±180°`, { feature: f.index, ...place });
+      if (Math.abs(y) > 90)
+        throw new GeoInputError(`Latitude ${y} lies beyond ±90°`, { feature: f.index, ...place });
     });
   }
 }
@@ -84,9 +90,12 @@ export function assertNoAntimeridianCrossing(features: (WithGeometry & { index: 
   for (const f of features) {
     const b = bboxOf([f]);
     if (b && b[2] - b[0] > 180) {
-      throw new GeoInputError('The shape spans more than 180° of longitude: it crosses the 180th meridian; split it there', {
-        feature: f.index,
-      });
+      throw new GeoInputError(
+        'The shape spans more than 180° of longitude: it crosses the 180th meridian; split it there',
+        {
+          feature: f.index,
+        },
+      );
     }
   }
 }
@@ -117,9 +126,13 @@ export function legacyCrsCode(input: unknown): string | null {
   const crs = (input as { crs: unknown }).crs;
   if (crs === null || crs === undefined) return null;
   const name = (crs as { properties?: { name?: unknown } }).properties?.name;
-  if (typeof name !== 'string') throw new GeoInputError('The file\'s "crs" member names no coordinate system');
+  if (typeof name !== 'string')
+    throw new GeoInputError('The file\'s "crs" member names no coordinate system');
   if (/CRS:?84$/i.test(name)) return 'EPSG:4326';
   const m = /EPSG:{1,2}(?:[\d.]*:)?(\d{4,6})$/i.exec(name);
-  if (!m) throw new GeoInputError(`The file names a coordinate system Sowright cannot read: "${name.slice(0, 80)}"`);
+  if (!m)
+    throw new GeoInputError(
+      `The file names a coordinate system Sowright cannot read: "${name.slice(0, 80)}"`,
+    );
   return `EPSG:${m[1]}`;
 }

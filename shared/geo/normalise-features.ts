@@ -8,7 +8,8 @@ export type NormalFeature = { index: number; properties: Record<string, unknown>
 /** Deeper GeometryCollections than this are refused (a guard against crafted input, not a format rule). */
 const MAX_COLLECTION_DEPTH = 8;
 
-const isObject = (v: unknown): v is Record<string, unknown> => typeof v === 'object' && v !== null && !Array.isArray(v);
+const isObject = (v: unknown): v is Record<string, unknown> =>
+  typeof v === 'object' && v !== null && !Array.isArray(v);
 
 type Context = { warnings: string[]; dropped: Map<string, number>; unclosed: number };
 
@@ -38,10 +39,13 @@ export function normaliseFeatures(input: unknown): { features: NormalFeature[]; 
     const geometry = rewindRfc7946<MultiPolygon>({ type: 'MultiPolygon', coordinates: polygons });
     features.push({ index, properties, geometry });
   }
-  for (const [what, n] of ctx.dropped) ctx.warnings.push(`${n} feature part${n === 1 ? '' : 's'} ${what} skipped`);
+  for (const [what, n] of ctx.dropped)
+    ctx.warnings.push(`${n} feature part${n === 1 ? '' : 's'} ${what} skipped`);
   if (ctx.unclosed) {
     const n = ctx.unclosed;
-    ctx.warnings.push(`${n} ring${n === 1 ? ' was' : 's were'} not closed: the first position was repeated at the end`);
+    ctx.warnings.push(
+      `${n} ring${n === 1 ? ' was' : 's were'} not closed: the first position was repeated at the end`,
+    );
   }
   return { features, warnings: ctx.warnings };
 }
@@ -53,9 +57,11 @@ function featuresOf(input: unknown): { geometry: unknown; properties: unknown }[
   }
   switch (input.type) {
     case 'FeatureCollection': {
-      if (!Array.isArray(input.features)) throw new GeoInputError('The FeatureCollection has no "features" list');
+      if (!Array.isArray(input.features))
+        throw new GeoInputError('The FeatureCollection has no "features" list');
       return input.features.map((f, i) => {
-        if (!isObject(f) || f.type !== 'Feature') throw new GeoInputError('This entry of "features" is not a Feature', { feature: i });
+        if (!isObject(f) || f.type !== 'Feature')
+          throw new GeoInputError('This entry of "features" is not a Feature', { feature: i });
         return { geometry: f.geometry, properties: f.properties };
       });
     }
@@ -78,8 +84,15 @@ function count(ctx: Context, what: string) {
   ctx.dropped.set(what, (ctx.dropped.get(what) ?? 0) + 1);
 }
 
-function collectPolygons(geom: unknown, place: GeoInputPlace, out: Position[][][], ctx: Context, depth: number) {
-  if (!isObject(geom) || typeof geom.type !== 'string') throw new GeoInputError('The geometry is not a GeoJSON geometry', place);
+function collectPolygons(
+  geom: unknown,
+  place: GeoInputPlace,
+  out: Position[][][],
+  ctx: Context,
+  depth: number,
+) {
+  if (!isObject(geom) || typeof geom.type !== 'string')
+    throw new GeoInputError('The geometry is not a GeoJSON geometry', place);
   const coords = geom.coordinates;
   switch (geom.type) {
     case 'Polygon':
@@ -96,8 +109,10 @@ function collectPolygons(geom: unknown, place: GeoInputPlace, out: Position[][][
       return;
     }
     case 'GeometryCollection': {
-      if (depth >= MAX_COLLECTION_DEPTH) throw new GeoInputError('GeometryCollections are nested too deeply', place);
-      if (!Array.isArray(geom.geometries)) throw new GeoInputError('The GeometryCollection has no "geometries" list', place);
+      if (depth >= MAX_COLLECTION_DEPTH)
+        throw new GeoInputError('GeometryCollections are nested too deeply', place);
+      if (!Array.isArray(geom.geometries))
+        throw new GeoInputError('The GeometryCollection has no "geometries" list', place);
       for (const g of geom.geometries) collectPolygons(g, place, out, ctx, depth + 1);
       return;
     }
@@ -112,7 +127,8 @@ function collectPolygons(geom: unknown, place: GeoInputPlace, out: Position[][][
   }
 }
 
-const isEmpty = (coords: unknown) => coords === undefined || coords === null || (Array.isArray(coords) && coords.length === 0);
+const isEmpty = (coords: unknown) =>
+  coords === undefined || coords === null || (Array.isArray(coords) && coords.length === 0);
 
 function readPolygon(rings: unknown, place: GeoInputPlace, ctx: Context): Position[][] {
   if (!Array.isArray(rings)) throw new GeoInputError('The polygon has no list of rings', place);
@@ -136,7 +152,8 @@ function readRing(ring: unknown, place: GeoInputPlace, ctx: Context): Position[]
 }
 
 function readPosition(p: unknown, place: GeoInputPlace): Position {
-  if (!Array.isArray(p) || p.length < 2) throw new GeoInputError('A position needs a longitude and a latitude', place);
+  if (!Array.isArray(p) || p.length < 2)
+    throw new GeoInputError('A position needs a longitude and a latitude', place);
   const [x, y] = p as unknown[];
   if (typeof x !== 'number' || typeof y !== 'number' || !Number.isFinite(x) || !Number.isFinite(y)) {
     throw new GeoInputError(`Coordinates must be numbers; found ${describe(x)}, ${describe(y)}`, place);

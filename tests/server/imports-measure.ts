@@ -33,7 +33,11 @@ function zoneLayer(totalVertices: number) {
       ring.push([cx + 0.0014 * r * Math.cos(a), cy + 0.0009 * r * Math.sin(a)]);
     }
     ring.push(ring[0]);
-    features.push({ type: 'Feature', properties: { name: `Zone ${k + 1}`, class: (k % 5) + 1 }, geometry: { type: 'Polygon', coordinates: [ring] } });
+    features.push({
+      type: 'Feature',
+      properties: { name: `Zone ${k + 1}`, class: (k % 5) + 1 },
+      geometry: { type: 'Polygon', coordinates: [ring] },
+    });
   }
   return { type: 'FeatureCollection', features };
 }
@@ -43,7 +47,9 @@ function pointCsv(n: number) {
   for (let i = 0; i < n; i++) {
     const lon = -93.6 + (i % 500) * 0.00002;
     const lat = 42 + Math.floor(i / 500) * 0.00001;
-    lines.push(`${lon.toFixed(7)},${lat.toFixed(7)},${(9 + Math.sin(i / 50)).toFixed(2)},${(15 + (i % 7) / 3).toFixed(1)},${(20 + (i % 13)).toFixed(1)}`);
+    lines.push(
+      `${lon.toFixed(7)},${lat.toFixed(7)},${(9 + Math.sin(i / 50)).toFixed(2)},${(15 + (i % 7) / 3).toFixed(1)},${(20 + (i % 13)).toFixed(1)}`,
+    );
   }
   return lines.join('\n');
 }
@@ -75,10 +81,14 @@ try {
     const t0 = performance.now();
     const res = await upload(w.callers.agronomist, w.a.field.id, purpose, name, body);
     const ms = performance.now() - t0;
-    if (res.status !== 201) throw new Error(`${label}: ${res.status} ${JSON.stringify(res.body).slice(0, 300)}`);
+    if (res.status !== 201)
+      throw new Error(`${label}: ${res.status} ${JSON.stringify(res.body).slice(0, 300)}`);
     const size = (Buffer.byteLength(body) / 1024 / 1024).toFixed(1);
-    const count = purpose === 'points' ? `${res.body.pointCount} points` : `${res.body.features.length} features`;
-    console.log(`${label}: ${size} MB, ${count}, ${ms.toFixed(0)} ms, peak RSS ${rssMb().toFixed(0)} MB (was ${before.toFixed(0)} MB)`);
+    const count =
+      purpose === 'points' ? `${res.body.pointCount} points` : `${res.body.features.length} features`;
+    console.log(
+      `${label}: ${size} MB, ${count}, ${ms.toFixed(0)} ms, peak RSS ${rssMb().toFixed(0)} MB (was ${before.toFixed(0)} MB)`,
+    );
   }
   await sequelize.close();
 } finally {

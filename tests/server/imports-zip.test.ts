@@ -18,7 +18,12 @@ beforeAll(async () => {
 afterAll(() => t.close());
 
 const countUploads = async () =>
-  (await t.sequelize.query<{ n: number }>('SELECT count(*)::int AS n FROM uploads WHERE workspace_id = $1', { bind: [w.ws.id], type: QueryTypes.SELECT }))[0].n;
+  (
+    await t.sequelize.query<{ n: number }>('SELECT count(*)::int AS n FROM uploads WHERE workspace_id = $1', {
+      bind: [w.ws.id],
+      type: QueryTypes.SELECT,
+    })
+  )[0].n;
 
 /** The shapefile's own parts as zip entries. */
 const shapeEntries = (): ZipEntry[] => [...parts].map(([ext, data]) => ({ name: `field.${ext}`, data }));
@@ -52,12 +57,21 @@ async function expectRefused(name: string, zip: Buffer) {
 
 describe('zip inspection before inflating', () => {
   it('accepts the plain shapefile (the control case)', async () => {
-    const res = await upload(w.callers.agronomist, w.a.field.id, 'zones', 'ok.zip', await zipOf(shapeEntries()));
+    const res = await upload(
+      w.callers.agronomist,
+      w.a.field.id,
+      'zones',
+      'ok.zip',
+      await zipOf(shapeEntries()),
+    );
     expect(res.status, JSON.stringify(res.body)).toBe(201);
   });
 
   it('refuses a zero-filled bomb (~1000:1) by its declared ratio', async () => {
-    const bomb = await zipOf([...shapeEntries().filter((e) => !e.name.endsWith('.dbf')), { name: 'field.dbf', data: Buffer.alloc(50 * 1024 * 1024) }]);
+    const bomb = await zipOf([
+      ...shapeEntries().filter((e) => !e.name.endsWith('.dbf')),
+      { name: 'field.dbf', data: Buffer.alloc(50 * 1024 * 1024) },
+    ]);
     // Compression ratio of zeros with DEFLATE is about 1000:1 (RELIABILITY.md, measured).
     expect(bomb.length).toBeLessThan(200 * 1024);
     const message = await expectRefused('bomb.zip', bomb);
@@ -66,7 +80,10 @@ describe('zip inspection before inflating', () => {
 
   it('refuses an entry whose header understates its size, counting bytes on the stream', async () => {
     const payload = Buffer.alloc(3 * 1024 * 1024, 7);
-    const zip = await zipOf([...shapeEntries().filter((e) => !e.name.endsWith('.dbf')), { name: 'field.dbf', data: payload }]);
+    const zip = await zipOf([
+      ...shapeEntries().filter((e) => !e.name.endsWith('.dbf')),
+      { name: 'field.dbf', data: payload },
+    ]);
     // Rewrite the central directory's uncompressed size of field.dbf to 1000 bytes (APPNOTE 4.3.12, offset 24).
     const cd = zip.lastIndexOf(Buffer.from('field.dbf'));
     const header = cd - 46;
@@ -79,7 +96,11 @@ describe('zip inspection before inflating', () => {
   it('passes a text-heavy .dbf compressing about 45:1', async () => {
     // Repetitive text compresses far less than zeros; build one near 45:1 and check the ratio first.
     const row = Buffer.from('Low ridge  silt loam   2027 corn   '.padEnd(64, ' '));
-    const text = Buffer.concat(Array.from({ length: 40_000 }, (_, i) => Buffer.concat([row, Buffer.from(String(i * 7919).padStart(10, '0'))])));
+    const text = Buffer.concat(
+      Array.from({ length: 40_000 }, (_, i) =>
+        Buffer.concat([row, Buffer.from(String(i * 7919).padStart(10, '0'))]),
+      ),
+    );
     const ratio = text.length / deflateRawSync(text).length;
     expect(ratio).toBeGreaterThan(10);
     expect(ratio).toBeLessThan(DEFAULT_ZIP_LIMITS.maxRatio);
@@ -104,25 +125,52 @@ describe('zip inspection before inflating', () => {
     const inner = await zipOf(shapeEntries());
     await expectRefused('nested.zip', await zipOf([...shapeEntries(), { name: 'more.zip', data: inner }]));
     // A nested zip under an innocent name is caught by its magic bytes.
-    await expectRefused('nested2.zip', await zipOf([...shapeEntries().filter((e) => !e.name.endsWith('.dbf')), { name: 'field.dbf', data: inner }]));
+    await expectRefused(
+      'nested2.zip',
+      await zipOf([
+        ...shapeEntries().filter((e) => !e.name.endsWith('.dbf')),
+        { name: 'field.dbf', data: inner },
+      ]),
+    );
     const many = Array.from({ length: 25 }, (_, i) => ({ name: `extra-${i}.txt`, data: 'x' }));
     const entries = [...shapeEntries(), ...many];
     expect(await expectRefused('many.zip', await zipOf(entries))).toContain(String(entries.length));
-    await expectRefused('dup.zip', await zipOf([...shapeEntries(), { name: 'FIELD.shp', data: parts.get('shp')! }]));
-    await expectRefused('link.zip', await zipOf([...shapeEntries(), { name: 'link.prj', data: '/etc/passwd', mode: 0o120777 }]));
+    await expectRefused(
+      'dup.zip',
+      await zipOf([...shapeEntries(), { name: 'FIELD.shp', data: parts.get('shp')! }]),
+    );
+    await expectRefused(
+      'link.zip',
+      await zipOf([...shapeEntries(), { name: 'link.prj', data: '/etc/passwd', mode: 0o120777 }]),
+    );
   });
 
   it('refuses a DOCTYPE in KML (billion laughs), alone or inside a KMZ', async () => {
     const before = await countUploads();
-    const kml = await upload(w.callers.agronomist, w.a.field.id, 'boundary', 'lol.kml', fixture('billion-laughs.kml'));
+    const kml = await upload(
+      w.callers.agronomist,
+      w.a.field.id,
+      'boundary',
+      'lol.kml',
+      fixture('billion-laughs.kml'),
+    );
     expect(kml.status).toBe(422);
-    const kmz = await upload(w.callers.agronomist, w.a.field.id, 'boundary', 'lol.kmz', await zipOf([{ name: 'doc.kml', data: fixture('billion-laughs.kml') }]));
+    const kmz = await upload(
+      w.callers.agronomist,
+      w.a.field.id,
+      'boundary',
+      'lol.kmz',
+      await zipOf([{ name: 'doc.kml', data: fixture('billion-laughs.kml') }]),
+    );
     expect(kmz.status).toBe(422);
     expect(await countUploads()).toBe(before);
   });
 
   it('refuses bytes that are not a zip at all but start like one', async () => {
-    await expectRefused('torn.zip', Buffer.concat([Buffer.from([0x50, 0x4b, 0x03, 0x04]), Buffer.alloc(100, 1)]));
+    await expectRefused(
+      'torn.zip',
+      Buffer.concat([Buffer.from([0x50, 0x4b, 0x03, 0x04]), Buffer.alloc(100, 1)]),
+    );
   });
 });
 
@@ -130,7 +178,9 @@ describe('the parse worker', () => {
   it('terminates a read that takes too long and says so', async () => {
     const bytes = fixture('zones-crs84.geojson');
     const job = { bytes, fileName: 'z.geojson', purpose: 'zones' as const, crsCode: null, reference: null };
-    await expect(parseInWorker(job, { timeoutMs: 1, maxOldGenerationSizeMb: 512, maxYoungGenerationSizeMb: 64 })).rejects.toMatchObject({
+    await expect(
+      parseInWorker(job, { timeoutMs: 1, maxOldGenerationSizeMb: 512, maxYoungGenerationSizeMb: 64 }),
+    ).rejects.toMatchObject({
       code: 'unreadable_file',
       message: expect.stringMatching(/too long/),
     });

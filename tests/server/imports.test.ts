@@ -58,14 +58,25 @@ const SQUARE_45 = {
   ],
   areaM2: 647_500.456,
 };
-const square45 = { type: 'FeatureCollection', features: [{ type: 'Feature', properties: { name: 'Square' }, geometry: { type: 'Polygon', coordinates: [SQUARE_45.ring] } }] };
+const square45 = {
+  type: 'FeatureCollection',
+  features: [
+    {
+      type: 'Feature',
+      properties: { name: 'Square' },
+      geometry: { type: 'Polygon', coordinates: [SQUARE_45.ring] },
+    },
+  ],
+};
 
 const fieldA = () => w.a.field.id;
 const agro = () => w.callers.agronomist;
 
 describe('GeoJSON', () => {
   it('reads a FeatureCollection with a legacy CRS84 crs: polygons kept, the point dropped with a warning, altitude dropped', async () => {
-    const p = preview(await upload(agro(), fieldA(), 'zones', 'zones.geojson', fixture('zones-crs84.geojson')));
+    const p = preview(
+      await upload(agro(), fieldA(), 'zones', 'zones.geojson', fixture('zones-crs84.geojson')),
+    );
     expect(p.format).toBe('geojson');
     expect(p.coordinates.kind).toBe('geographic');
     expect(p.features.map((f) => f.properties.zone)).toEqual(['Low ridge', 'Bottom']);
@@ -103,7 +114,20 @@ function ogrGeoJson(geojson: object, srs: string): string {
   const dir = mkdtempSync(path.join(os.tmpdir(), 'sowright-gj-'));
   try {
     writeFileSync(path.join(dir, 'in.geojson'), JSON.stringify(geojson));
-    execFileSync('ogr2ogr', ['-f', 'GeoJSON', '-t_srs', srs, '-lco', 'RFC7946=NO', path.join(dir, 'out.geojson'), path.join(dir, 'in.geojson')], { stdio: 'pipe' });
+    execFileSync(
+      'ogr2ogr',
+      [
+        '-f',
+        'GeoJSON',
+        '-t_srs',
+        srs,
+        '-lco',
+        'RFC7946=NO',
+        path.join(dir, 'out.geojson'),
+        path.join(dir, 'in.geojson'),
+      ],
+      { stdio: 'pipe' },
+    );
     const text = readFileSync(path.join(dir, 'out.geojson'), 'utf8');
     expect(text).toContain('32615');
     return text;
@@ -132,7 +156,10 @@ describe('shapefile', () => {
     expect(p.coordinates.candidates[0].code).toBe('EPSG:32615');
     // Zones 14 and 16 would put the data hundreds of kilometres away: not offered.
     expect(p.coordinates.candidates.map((c) => c.code)).not.toContain('EPSG:32614');
-    const chosen = preview(await agro().post(`/api/imports/${p.id}/coordinates`, { code: 'EPSG:32615' }), 200);
+    const chosen = preview(
+      await agro().post(`/api/imports/${p.id}/coordinates`, { code: 'EPSG:32615' }),
+      200,
+    );
     expect(chosen.coordinates.kind).toBe('geographic');
     expect(Math.abs(chosen.features[0].areaM2 / SQUARE_45.areaM2 - 1)).toBeLessThan(1e-4);
     // The choice is kept: reading the import again gives the same.
@@ -148,7 +175,9 @@ describe('shapefile', () => {
     const unknown = await agro().post(`/api/imports/${p.id}/coordinates`, { code: 'EPSG:99999' });
     expect(unknown.status).toBe(422);
     expect(unknown.body.error.code).toBe('unknown_crs');
-    const known = preview(await upload(agro(), fieldA(), 'zones', 'zones.geojson', fixture('zones-crs84.geojson')));
+    const known = preview(
+      await upload(agro(), fieldA(), 'zones', 'zones.geojson', fixture('zones-crs84.geojson')),
+    );
     const res = await agro().post(`/api/imports/${known.id}/coordinates`, { code: 'EPSG:32615' });
     expect(res.status).toBe(409);
   });
@@ -163,8 +192,13 @@ describe('shapefile', () => {
 
   it('lists several layers of one zip, naming each feature’s layer', async () => {
     const a = shapefileOf(collection([square(-93.6, 42, 0.002)]), { layer: 'north' });
-    const b = shapefileOf(collection([square(-93.597, 42, 0.002)], [square(-93.594, 42, 0.002)]), { layer: 'south' });
-    const zip = await zipOf([...[...a].map(([e, d]) => ({ name: `north.${e}`, data: d })), ...[...b].map(([e, d]) => ({ name: `south.${e}`, data: d }))]);
+    const b = shapefileOf(collection([square(-93.597, 42, 0.002)], [square(-93.594, 42, 0.002)]), {
+      layer: 'south',
+    });
+    const zip = await zipOf([
+      ...[...a].map(([e, d]) => ({ name: `north.${e}`, data: d })),
+      ...[...b].map(([e, d]) => ({ name: `south.${e}`, data: d })),
+    ]);
     const p = preview(await upload(agro(), fieldA(), 'zones', 'two-layers.zip', zip));
     expect(p.layers.map((l) => [l.name, l.featureCount, l.geometryType]).sort()).toEqual([
       ['north', 1, 'Polygon'],
@@ -202,9 +236,15 @@ describe('shapefile', () => {
   it('reads shapefile points for a data layer', async () => {
     const pts = {
       type: 'FeatureCollection',
-      features: [1, 2, 3].map((i) => ({ type: 'Feature', properties: { yield_t: 9 + i, id: `p${i}` }, geometry: { type: 'Point', coordinates: [-93.6 + i * 0.001, 42.001] } })),
+      features: [1, 2, 3].map((i) => ({
+        type: 'Feature',
+        properties: { yield_t: 9 + i, id: `p${i}` },
+        geometry: { type: 'Point', coordinates: [-93.6 + i * 0.001, 42.001] },
+      })),
     };
-    const p = preview(await upload(agro(), fieldA(), 'points', 'yield.zip', await zipShapefile(shapefileOf(pts))));
+    const p = preview(
+      await upload(agro(), fieldA(), 'points', 'yield.zip', await zipShapefile(shapefileOf(pts))),
+    );
     expect(p.pointCount).toBe(3);
     expect(p.numericProperties).toEqual([{ name: 'yield_t', min: 10, max: 12, count: 3 }]);
   });
@@ -212,7 +252,9 @@ describe('shapefile', () => {
 
 describe('KML and KMZ', () => {
   it('turns a MultiGeometry into one MultiPolygon (holes kept, altitude and the point dropped)', async () => {
-    const p = preview(await upload(agro(), fieldA(), 'boundary', 'fields.kml', fixture('boundary-multigeometry.kml')));
+    const p = preview(
+      await upload(agro(), fieldA(), 'boundary', 'fields.kml', fixture('boundary-multigeometry.kml')),
+    );
     expect(p.format).toBe('kml');
     expect(p.features).toHaveLength(1);
     const g = p.features[0].geometry;
@@ -240,7 +282,16 @@ describe('KML and KMZ', () => {
 
   it('refuses a KMZ with two root KML documents', async () => {
     const kml = fixture('boundary-multigeometry.kml');
-    const res = await upload(agro(), fieldA(), 'boundary', 'two.kmz', await zipOf([{ name: 'a.kml', data: kml }, { name: 'b.kml', data: kml }]));
+    const res = await upload(
+      agro(),
+      fieldA(),
+      'boundary',
+      'two.kmz',
+      await zipOf([
+        { name: 'a.kml', data: kml },
+        { name: 'b.kml', data: kml },
+      ]),
+    );
     expect(res.status).toBe(422);
   });
 });
@@ -262,7 +313,9 @@ describe('points', () => {
       { lon: -93.5985, lat: 42.0005, value: 3.4 },
       { lon: -93.5975, lat: 42.0015, value: 2.8 },
     ]);
-    await expect(loadImportPoints(actorOf(w), p.id, 'texture')).rejects.toMatchObject({ code: 'validation_failed' });
+    await expect(loadImportPoints(actorOf(w), p.id, 'texture')).rejects.toMatchObject({
+      code: 'validation_failed',
+    });
   });
 
   it('detects x/y and long/lat headers', async () => {
@@ -271,7 +324,15 @@ describe('points', () => {
       ['long', 'lat'],
       ['LON', 'LATITUDE'],
     ]) {
-      const p = preview(await upload(agro(), fieldA(), 'points', 'p.csv', `${lon},${lat},ec\n-93.6,42.001,10\n-93.599,42.001,12\n`));
+      const p = preview(
+        await upload(
+          agro(),
+          fieldA(),
+          'points',
+          'p.csv',
+          `${lon},${lat},ec\n-93.6,42.001,10\n-93.599,42.001,12\n`,
+        ),
+      );
       expect(p.pointCount).toBe(2);
     }
   });
@@ -280,10 +341,22 @@ describe('points', () => {
     const dup = await upload(agro(), fieldA(), 'points', 'dup.csv', 'lon,lat,ec,EC\n-93.6,42,1,2\n');
     expect(dup.status).toBe(422);
     expect(dup.body.error.message).toMatch(/Line 1/);
-    const quote = await upload(agro(), fieldA(), 'points', 'quote.csv', 'lon,lat,note\n-93.6,42,ok\n-93.6,42,"open\n-93.6,42,x\n');
+    const quote = await upload(
+      agro(),
+      fieldA(),
+      'points',
+      'quote.csv',
+      'lon,lat,note\n-93.6,42,ok\n-93.6,42,"open\n-93.6,42,x\n',
+    );
     expect(quote.status).toBe(422);
     expect(quote.body.error.message).toMatch(/Line 3/);
-    const long = await upload(agro(), fieldA(), 'points', 'long.csv', `lon,lat,note\n-93.6,42,ok\n-93.6,42,${'x'.repeat(20_000)}\n`);
+    const long = await upload(
+      agro(),
+      fieldA(),
+      'points',
+      'long.csv',
+      `lon,lat,note\n-93.6,42,ok\n-93.6,42,${'x'.repeat(20_000)}\n`,
+    );
     expect(long.status).toBe(422);
     expect(long.body.error.message).toMatch(/Line 3/);
   });
@@ -293,7 +366,17 @@ describe('points', () => {
       type: 'FeatureCollection',
       features: [
         { type: 'Feature', properties: { om: 3 }, geometry: { type: 'Point', coordinates: [-93.6, 42.001] } },
-        { type: 'Feature', properties: { om: 4 }, geometry: { type: 'MultiPoint', coordinates: [[-93.599, 42.001], [-93.598, 42.001]] } },
+        {
+          type: 'Feature',
+          properties: { om: 4 },
+          geometry: {
+            type: 'MultiPoint',
+            coordinates: [
+              [-93.599, 42.001],
+              [-93.598, 42.001],
+            ],
+          },
+        },
       ],
     };
     const p = preview(await upload(agro(), fieldA(), 'points', 'om.geojson', JSON.stringify(gj)));
@@ -302,7 +385,9 @@ describe('points', () => {
   });
 
   it('refuses a CSV for polygons and polygons for points', async () => {
-    expect((await upload(agro(), fieldA(), 'zones', 'soil.csv', fixture('soil-samples.csv'))).status).toBe(422);
+    expect((await upload(agro(), fieldA(), 'zones', 'soil.csv', fixture('soil-samples.csv'))).status).toBe(
+      422,
+    );
     const polygonsOnly = JSON.stringify({ type: 'Polygon', coordinates: [square(-93.6, 42, 0.002)] });
     expect((await upload(agro(), fieldA(), 'points', 'zones.geojson', polygonsOnly)).status).toBe(422);
   });
@@ -310,18 +395,30 @@ describe('points', () => {
 
 describe('uploads', () => {
   const countUploads = async (fieldId: string) =>
-    (await t.sequelize.query<{ n: number }>('SELECT count(*)::int AS n FROM uploads WHERE field_id = $1', { bind: [fieldId], type: QueryTypes.SELECT }))[0].n;
+    (
+      await t.sequelize.query<{ n: number }>('SELECT count(*)::int AS n FROM uploads WHERE field_id = $1', {
+        bind: [fieldId],
+        type: QueryTypes.SELECT,
+      })
+    )[0].n;
 
   it('keeps the original byte for byte; the same file twice for the same field and purpose is one upload', async () => {
     // A file of its own for this run (a unique member), so earlier runs' uploads do not count.
-    const bytes = Buffer.from(JSON.stringify({ ...JSON.parse(fixture('zones-crs84.geojson').toString()), name: `run ${Date.now()}` }));
+    const bytes = Buffer.from(
+      JSON.stringify({ ...JSON.parse(fixture('zones-crs84.geojson').toString()), name: `run ${Date.now()}` }),
+    );
     const fieldId = w.b.field.id;
     const before = await countUploads(fieldId);
     const first = preview(await upload(agro(), fieldId, 'zones', 'keep.geojson', bytes));
     const second = preview(await upload(w.callers.admin, fieldId, 'zones', 'renamed.geojson', bytes));
     expect(second.id).not.toBe(first.id);
     expect(await countUploads(fieldId)).toBe(before + 1);
-    const [row] = await t.sequelize.query<{ content: Buffer; sha256: string; original_name: string; size_bytes: number }>(
+    const [row] = await t.sequelize.query<{
+      content: Buffer;
+      sha256: string;
+      original_name: string;
+      size_bytes: number;
+    }>(
       'SELECT u.content, u.sha256, u.original_name, u.size_bytes FROM uploads u JOIN imports i ON i.upload_id = u.id WHERE i.id = $1',
       { bind: [first.id], type: QueryTypes.SELECT },
     );
@@ -345,13 +442,31 @@ describe('uploads', () => {
   it('refuses a missing file, a bad purpose and an unknown field', async () => {
     const none = await agro().post('/api/imports', { purpose: 'zones', fieldId: fieldA() });
     expect(none.status).toBe(400);
-    expect((await upload(agro(), fieldA(), 'seeds', 'z.geojson', fixture('zones-crs84.geojson'))).status).toBe(400);
-    expect((await upload(agro(), '00000000-0000-4000-8000-000000000000', 'zones', 'z.geojson', fixture('zones-crs84.geojson'))).status).toBe(404);
+    expect(
+      (await upload(agro(), fieldA(), 'seeds', 'z.geojson', fixture('zones-crs84.geojson'))).status,
+    ).toBe(400);
+    expect(
+      (
+        await upload(
+          agro(),
+          '00000000-0000-4000-8000-000000000000',
+          'zones',
+          'z.geojson',
+          fixture('zones-crs84.geojson'),
+        )
+      ).status,
+    ).toBe(404);
   });
 
   it('lets admin and agronomist import; farmer and consultant may not', async () => {
     for (const role of ['farmer', 'consultant'] as const) {
-      const res = await upload(w.callers[role], fieldA(), 'zones', 'z.geojson', fixture('zones-crs84.geojson'));
+      const res = await upload(
+        w.callers[role],
+        fieldA(),
+        'zones',
+        'z.geojson',
+        fixture('zones-crs84.geojson'),
+      );
       expect(res.status).toBe(403);
     }
     preview(await upload(w.callers.admin, fieldA(), 'zones', 'z.geojson', fixture('zones-crs84.geojson')));
@@ -359,10 +474,20 @@ describe('uploads', () => {
 
   it('hides another workspace’s import and field (404), in the routes and in the exported loaders', async () => {
     const other = await makeWorld(t.app, 'imports-other');
-    const p = preview(await upload(other.callers.agronomist, other.a.field.id, 'zones', 'z.geojson', fixture('zones-crs84.geojson')));
+    const p = preview(
+      await upload(
+        other.callers.agronomist,
+        other.a.field.id,
+        'zones',
+        'z.geojson',
+        fixture('zones-crs84.geojson'),
+      ),
+    );
     expect((await agro().get(`/api/imports/${p.id}`)).status).toBe(404);
     expect((await agro().post(`/api/imports/${p.id}/coordinates`, { code: 'EPSG:32615' })).status).toBe(404);
-    expect((await upload(agro(), other.a.field.id, 'zones', 'z.geojson', fixture('zones-crs84.geojson'))).status).toBe(404);
+    expect(
+      (await upload(agro(), other.a.field.id, 'zones', 'z.geojson', fixture('zones-crs84.geojson'))).status,
+    ).toBe(404);
     await expect(loadImportFeatures(actorOf(w), p.id)).rejects.toMatchObject({ code: 'not_found' });
     await expect(loadImportPoints(actorOf(w), p.id, 'class')).rejects.toMatchObject({ code: 'not_found' });
     const own = await loadImportFeatures(actorOf(other), p.id);
@@ -370,9 +495,22 @@ describe('uploads', () => {
   });
 
   it('the field answer after a boundary from an import has the fields shape', async () => {
-    const p = preview(await upload(agro(), w.b.field.id, 'boundary', 'b.geojson', JSON.stringify({ type: 'Polygon', coordinates: [square(-93.6, 42, 0.004)] })));
+    const p = preview(
+      await upload(
+        agro(),
+        w.b.field.id,
+        'boundary',
+        'b.geojson',
+        JSON.stringify({ type: 'Polygon', coordinates: [square(-93.6, 42, 0.004)] }),
+      ),
+    );
     const field = (await agro().get(`/api/fields/${w.b.field.id}`)).body;
-    const res = await agro().put(`/api/fields/${w.b.field.id}/boundary`, { importId: p.id, featureIndexes: [0], repair: false, version: field.version });
+    const res = await agro().put(`/api/fields/${w.b.field.id}/boundary`, {
+      importId: p.id,
+      featureIndexes: [0],
+      repair: false,
+      version: field.version,
+    });
     expect(res.status, JSON.stringify(res.body)).toBe(200);
     fieldSchema.parse(res.body);
     expect(res.body.areaM2).toBeCloseTo(p.features[0].areaM2, 3);

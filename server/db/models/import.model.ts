@@ -1,4 +1,11 @@
-import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
+import {
+  DataTypes,
+  Model,
+  type CreationOptional,
+  type InferAttributes,
+  type InferCreationAttributes,
+  type Sequelize,
+} from 'sequelize';
 import type { ImportPurpose } from '../../../shared/schemas/import.schema';
 
 export type ImportFormat = 'geojson' | 'shapefile' | 'kml' | 'kmz' | 'csv';

@@ -13,7 +13,9 @@ export function boundaryRouter() {
     '/:id/boundary',
     requireSignIn,
     requireRole('admin', 'agronomist'),
-    handle({ params: idParamsSchema, body: setBoundarySchema }, ({ req, params, body }) => setFieldBoundary(actorOf(req), params.id, body)),
+    handle({ params: idParamsSchema, body: setBoundarySchema }, ({ req, params, body }) =>
+      setFieldBoundary(actorOf(req), params.id, body),
+    ),
   );
   router.use(importErrors);
   return router;

@@ -24,18 +24,33 @@ function drawnPiece(geometry: unknown): Piece {
     assertNoAntimeridianCrossing(features);
     return { label: 'The drawn boundary', path: ['geometry'], geometry: features[0].geometry };
   } catch (err) {
-    if (err instanceof GeoInputError) throw new DomainError('invalid_geometry', err.message, [{ path: ['geometry'], message: err.message }]);
+    if (err instanceof GeoInputError)
+      throw new DomainError('invalid_geometry', err.message, [{ path: ['geometry'], message: err.message }]);
     throw err;
   }
 }
 
-async function importedPieces(actor: Actor, fieldId: string, importId: string, indexes: number[]): Promise<Piece[]> {
+async function importedPieces(
+  actor: Actor,
+  fieldId: string,
+  importId: string,
+  indexes: number[],
+): Promise<Piece[]> {
   const { imp, features } = await loadImportCandidates(actor, importId);
-  if (imp.fieldId !== fieldId) throw new ValidationError('This import was made for another field', [{ path: ['importId'], message: 'Made for another field' }]);
-  if (imp.purpose === 'points') throw new ValidationError('This import is a point layer', [{ path: ['importId'], message: 'A point layer has no boundary' }]);
+  if (imp.fieldId !== fieldId)
+    throw new ValidationError('This import was made for another field', [
+      { path: ['importId'], message: 'Made for another field' },
+    ]);
+  if (imp.purpose === 'points')
+    throw new ValidationError('This import is a point layer', [
+      { path: ['importId'], message: 'A point layer has no boundary' },
+    ]);
   return [...new Set(indexes)].map((index, k) => {
     const f = features.find((x) => x.index === index);
-    if (!f) throw new ValidationError(`The file has no polygon feature ${index}`, [{ path: ['featureIndexes', k], message: 'No such polygon feature' }]);
+    if (!f)
+      throw new ValidationError(`The file has no polygon feature ${index}`, [
+        { path: ['featureIndexes', k], message: 'No such polygon feature' },
+      ]);
     return { label: `Feature ${index + 1}`, path: ['featureIndexes', k], geometry: f.geometry };
   });
 }
@@ -46,10 +61,17 @@ async function importedPieces(actor: Actor, fieldId: string, importId: string, i
  * `repair: true` answers `invalid_geometry` naming reason and place, with `repair` its `ST_MakeValid`
  * (polygons only) is stored. Nothing invalid is stored; a stale `version` answers 409.
  */
-export async function setFieldBoundary(actor: Actor, fieldId: string, input: z.output<typeof setBoundarySchema>) {
+export async function setFieldBoundary(
+  actor: Actor,
+  fieldId: string,
+  input: z.output<typeof setBoundarySchema>,
+) {
   const field = assertFound(await Field.findOne({ where: scopedWhere(actor, { id: fieldId }) }), 'Field');
   assertVersion(field.version, input.version);
-  const pieces = 'importId' in input ? await importedPieces(actor, fieldId, input.importId, input.featureIndexes) : [drawnPiece(input.geometry)];
+  const pieces =
+    'importId' in input
+      ? await importedPieces(actor, fieldId, input.importId, input.featureIndexes)
+      : [drawnPiece(input.geometry)];
   const checked = await checkGeometries(pieces.map((p) => p.geometry));
   const geometries = pieces.map((piece, k) => {
     const c = checked[k];
@@ -57,7 +79,10 @@ export async function setFieldBoundary(actor: Actor, fieldId: string, input: z.o
     const where = c.location ? ` near ${c.location.map((v) => v.toFixed(7)).join(', ')}` : '';
     const message = `${piece.label} is not a valid polygon: ${c.reason ?? 'invalid'}${where}`;
     if (!input.repair) throw new DomainError('invalid_geometry', message, [{ path: piece.path, message }]);
-    if (!c.repair) throw new DomainError('invalid_geometry', `${message}; no polygon is left once repaired`, [{ path: piece.path, message }]);
+    if (!c.repair)
+      throw new DomainError('invalid_geometry', `${message}; no polygon is left once repaired`, [
+        { path: piece.path, message },
+      ]);
     return c.repair;
   });
   const [row] = await Field.sequelize!.query<{ geom: MultiPolygon }>(

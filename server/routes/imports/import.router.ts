@@ -17,9 +17,15 @@ const upload: RequestHandler = (req, res, next) => {
     if (!err) return next();
     if (err instanceof multer.MulterError) {
       if (err.code === 'LIMIT_FILE_SIZE') {
-        return next(new FileReadError(`The file is larger than ${MAX_UPLOAD_BYTES / 1024 / 1024} MB`, 'too_large'));
+        return next(
+          new FileReadError(`The file is larger than ${MAX_UPLOAD_BYTES / 1024 / 1024} MB`, 'too_large'),
+        );
       }
-      return next(new DomainError('validation_failed', `The upload was refused: ${err.message}`, [{ path: [err.field ?? 'file'], message: err.message }]));
+      return next(
+        new DomainError('validation_failed', `The upload was refused: ${err.message}`, [
+          { path: [err.field ?? 'file'], message: err.message },
+        ]),
+      );
     }
     next(new DomainError('validation_failed', 'The upload could not be read as a multipart form'));
   });
@@ -44,7 +50,10 @@ export function importRouter() {
       res.status(201).json(await createImport(actorOf(req), req.file, input));
     }),
   );
-  router.get('/:id', handle({ params: idParamsSchema }, ({ req, params }) => getImportPreview(actorOf(req), params.id)));
+  router.get(
+    '/:id',
+    handle({ params: idParamsSchema }, ({ req, params }) => getImportPreview(actorOf(req), params.id)),
+  );
   router.post(
     '/:id/coordinates',
     handle({ params: idParamsSchema, body: chooseCoordinatesSchema }, ({ req, params, body }) =>

@@ -37,12 +37,16 @@ async function findField(actor: Actor, fieldId: string) {
 /** An import of the actor's workspace (and, for farmers and consultants, of their growers' fields). */
 async function findImport(actor: Actor, id: string) {
   const imp = assertFound(await Import.findOne({ where: { id, workspaceId: actor.workspaceId } }), 'Import');
-  if (actor.growerScope) await findField(actor, imp.fieldId).catch(() => Promise.reject(new NotFoundError('Import')));
+  if (actor.growerScope)
+    await findField(actor, imp.fieldId).catch(() => Promise.reject(new NotFoundError('Import')));
   return imp;
 }
 
 async function parseStored(imp: Import, crsCode = imp.crsCode): Promise<ParseOutcome> {
-  const upload = assertFound(await Upload.findOne({ where: { id: imp.uploadId, workspaceId: imp.workspaceId } }), 'Upload');
+  const upload = assertFound(
+    await Upload.findOne({ where: { id: imp.uploadId, workspaceId: imp.workspaceId } }),
+    'Upload',
+  );
   return parseInWorker({
     bytes: upload.content,
     fileName: upload.originalName,
@@ -52,7 +56,14 @@ async function parseStored(imp: Import, crsCode = imp.crsCode): Promise<ParseOut
   });
 }
 
-type Checked = { valid: boolean; reason: string | null; location: number[] | null; area_m2: number; repair: MultiPolygon | null; repair_area_m2: number | null };
+type Checked = {
+  valid: boolean;
+  reason: string | null;
+  location: number[] | null;
+  area_m2: number;
+  repair: MultiPolygon | null;
+  repair_area_m2: number | null;
+};
 
 /**
  * Validity of each geometry as GEOS decides it (PostGIS `ST_IsValidDetail`, `ST_IsValidReason`), its ellipsoidal
@@ -79,7 +90,8 @@ export async function checkGeometries(geometries: MultiPolygon[]): Promise<Check
            CASE WHEN fixed IS NULL OR ST_IsEmpty(fixed) THEN NULL ELSE ST_AsGeoJSON(fixed, 15)::json END AS repair,
            CASE WHEN fixed IS NULL OR ST_IsEmpty(fixed) THEN NULL ELSE ST_Area(fixed::geography, true) END AS repair_area_m2
       FROM r ORDER BY i`;
-  const run = (gs: MultiPolygon[]) => db().query<Checked>(sql, { bind: [JSON.stringify(gs)], type: QueryTypes.SELECT });
+  const run = (gs: MultiPolygon[]) =>
+    db().query<Checked>(sql, { bind: [JSON.stringify(gs)], type: QueryTypes.SELECT });
   try {
     return await run(geometries);
   } catch {
@@ -99,7 +111,8 @@ async function previewFeatures(features: PreviewFeatureIn[], warnings: string[])
   const checked = await checkGeometries(features.map((f) => f.geometry));
   return features.map((f, k) => {
     const c = checked[k];
-    if (!c.valid && !c.repair) warnings.push(`Feature ${f.index + 1} is not a valid polygon and no polygon is left once repaired`);
+    if (!c.valid && !c.repair)
+      warnings.push(`Feature ${f.index + 1} is not a valid polygon and no polygon is left once repaired`);
     return {
       index: f.index,
       layer: f.layer,
@@ -117,7 +130,9 @@ async function toPreview(imp: Import, fileName: string, outcome: ParseOutcome): 
   const wantPoints = imp.purpose === 'points';
   if (outcome.coordinates.kind === 'geographic') {
     if (!wantPoints && outcome.features.length === 0) {
-      throw new FileReadError(`The file holds no polygons (its layers: ${outcome.layers.map((l) => `${l.name}: ${l.geometryType}`).join(', ')})`);
+      throw new FileReadError(
+        `The file holds no polygons (its layers: ${outcome.layers.map((l) => `${l.name}: ${l.geometryType}`).join(', ')})`,
+      );
     }
     if (wantPoints && !outcome.pointCount) throw new FileReadError('The file holds no points');
   }
@@ -129,15 +144,20 @@ async function toPreview(imp: Import, fileName: string, outcome: ParseOutcome): 
     layers: outcome.layers,
     coordinates: outcome.coordinates,
     features: wantPoints ? [] : await previewFeatures(outcome.features, warnings),
-    ...(wantPoints ? { pointCount: outcome.pointCount ?? 0, numericProperties: outcome.numericProperties ?? [] } : {}),
+    ...(wantPoints
+      ? { pointCount: outcome.pointCount ?? 0, numericProperties: outcome.numericProperties ?? [] }
+      : {}),
     warnings,
   };
 }
 
 /** A stored file name: the last path part, no control characters, at most 255 characters. */
 function safeName(original: string): string {
-  // eslint-disable-next-line no-control-regex
-  const name = (original.split(/[\\/]/).pop() ?? '').replace(/[\u0000-\u001f\u007f]/g, '').trim().slice(0, 255);
+  const name = (original.split(/[\\/]/).pop() ?? '')
+    // eslint-disable-next-line no-control-regex
+    .replace(/[\u0000-\u001f\u007f]/g, '')
+    .trim()
+    .slice(0, 255);
   return name || 'upload';
 }
 
@@ -151,7 +171,8 @@ export async function createImport(
   file: { buffer: Buffer; originalname: string } | undefined,
   input: { purpose: ImportPurpose; fieldId: string },
 ): Promise<ImportPreview> {
-  if (!file) throw new ValidationError('Attach the file as "file"', [{ path: ['file'], message: 'Attach a file' }]);
+  if (!file)
+    throw new ValidationError('Attach the file as "file"', [{ path: ['file'], message: 'Attach a file' }]);
   const field = await findField(actor, input.fieldId);
   const fileName = safeName(file.originalname);
   const outcome = await parseInWorker({
@@ -180,7 +201,16 @@ export async function createImport(
        ON CONFLICT (workspace_id, field_id, purpose, sha256) DO UPDATE SET sha256 = EXCLUDED.sha256
        RETURNING id`,
       {
-        bind: [actor.workspaceId, field.id, input.purpose, fileName, file.buffer.length, sha256, file.buffer, actor.userId],
+        bind: [
+          actor.workspaceId,
+          field.id,
+          input.purpose,
+          fileName,
+          file.buffer.length,
+          sha256,
+          file.buffer,
+          actor.userId,
+        ],
         type: QueryTypes.SELECT,
         transaction,
       },
@@ -198,15 +228,25 @@ export async function getImportPreview(actor: Actor, id: string): Promise<Import
 }
 
 /** POST /api/imports/:id/coordinates: the preview reprojected from the EPSG code the user chose. */
-export async function chooseImportCoordinates(actor: Actor, id: string, code: string): Promise<ImportPreview> {
+export async function chooseImportCoordinates(
+  actor: Actor,
+  id: string,
+  code: string,
+): Promise<ImportPreview> {
   const imp = await findImport(actor, id);
   if (!projectionFor(code)) {
-    throw new FileReadError(`Sowright cannot reproject from ${code}; choose one of the suggested systems or a UTM zone`, 'unknown_crs', [
-      { path: ['code'], message: `Unknown to Sowright: ${code}` },
-    ]);
+    throw new FileReadError(
+      `Sowright cannot reproject from ${code}; choose one of the suggested systems or a UTM zone`,
+      'unknown_crs',
+      [{ path: ['code'], message: `Unknown to Sowright: ${code}` }],
+    );
   }
   const outcome = await parseStored(imp, code);
-  if (!outcome.crsChosen) throw new ConflictError('This file says which coordinate system it is in; there is nothing to choose', 'conflict');
+  if (!outcome.crsChosen)
+    throw new ConflictError(
+      'This file says which coordinate system it is in; there is nothing to choose',
+      'conflict',
+    );
   const upload = assertFound(await Upload.findByPk(imp.uploadId, { attributes: ['originalName'] }), 'Upload');
   const preview = await toPreview(imp, upload.originalName, outcome);
   imp.crsCode = code;
@@ -254,13 +294,20 @@ export async function loadImportCandidates(actor: Actor, importId: string) {
  * for it are left out. Throws NotFoundError for an import of another workspace, and a validation error
  * when the attribute is not a numeric property of the file.
  */
-export async function loadImportPoints(actor: Actor, importId: string, attribute: string): Promise<{ lon: number; lat: number; value: number }[]> {
+export async function loadImportPoints(
+  actor: Actor,
+  importId: string,
+  attribute: string,
+): Promise<{ lon: number; lat: number; value: number }[]> {
   const { imp, outcome } = await readFeatures(actor, importId);
-  if (imp.purpose !== 'points' || !outcome.points) throw new ValidationError('This import is not a point layer');
+  if (imp.purpose !== 'points' || !outcome.points)
+    throw new ValidationError('This import is not a point layer');
   const numeric = new Set((outcome.numericProperties ?? []).map((p) => p.name));
   const column = outcome.points.columns.find((c) => c.name === attribute);
   if (!column || !numeric.has(attribute)) {
-    throw new ValidationError(`"${attribute}" is not a numeric attribute of this file`, [{ path: ['attribute'], message: 'Not a numeric attribute of the file' }]);
+    throw new ValidationError(`"${attribute}" is not a numeric attribute of this file`, [
+      { path: ['attribute'], message: 'Not a numeric attribute of the file' },
+    ]);
   }
   const { lon, lat } = outcome.points;
   const out: { lon: number; lat: number; value: number }[] = [];

@@ -27,7 +27,10 @@ function readHeader(header: string[]) {
   const seen = new Map<string, number>();
   headers.forEach((h, i) => {
     const k = h.toLowerCase();
-    if (seen.has(k)) throw new FileReadError(`Line 1: the column name "${h.slice(0, 60)}" appears twice (columns ${seen.get(k)! + 1} and ${i + 1})`);
+    if (seen.has(k))
+      throw new FileReadError(
+        `Line 1: the column name "${h.slice(0, 60)}" appears twice (columns ${seen.get(k)! + 1} and ${i + 1})`,
+      );
     seen.set(k, i);
   });
   const lonCol = findColumn(headers, LON_NAMES);
@@ -54,7 +57,8 @@ export function readCsv(bytes: Uint8Array, name: string): ReadResult {
   let line = 1;
   for (let i = 0; i <= text.length; i++) {
     if (i === text.length || text.charCodeAt(i) === 10) {
-      if (i - lineStart > MAX_CSV_LINE) throw new FileReadError(`Line ${line} is longer than ${MAX_CSV_LINE} characters`);
+      if (i - lineStart > MAX_CSV_LINE)
+        throw new FileReadError(`Line ${line} is longer than ${MAX_CSV_LINE} characters`);
       lineStart = i + 1;
       line++;
     }
@@ -120,7 +124,9 @@ export function readCsv(bytes: Uint8Array, name: string): ReadResult {
   const names: string[] = headers;
   const warnings: string[] = [];
   if (skippedCount) {
-    warnings.push(`${skippedCount} row${skippedCount === 1 ? '' : 's'} without readable coordinates skipped (row ${skipped.join(', ')}${skippedCount > skipped.length ? ', …' : ''}; the header is row 1)`);
+    warnings.push(
+      `${skippedCount} row${skippedCount === 1 ? '' : 's'} without readable coordinates skipped (row ${skipped.join(', ')}${skippedCount > skipped.length ? ', …' : ''}; the header is row 1)`,
+    );
   }
   if (kept === 0) throw new FileReadError('No row of the CSV has readable coordinates');
   const points = {
@@ -130,7 +136,15 @@ export function readCsv(bytes: Uint8Array, name: string): ReadResult {
   };
   return {
     format: 'csv',
-    layers: [{ name: stem(name), data: null, points, crs: { kind: 'wgs84', source: `CSV columns "${names[lonCol]}" and "${names[latCol]}"` }, geometryType: 'Point' }],
+    layers: [
+      {
+        name: stem(name),
+        data: null,
+        points,
+        crs: { kind: 'wgs84', source: `CSV columns "${names[lonCol]}" and "${names[latCol]}"` },
+        geometryType: 'Point',
+      },
+    ],
     warnings,
   };
 }

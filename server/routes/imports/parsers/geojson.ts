@@ -10,7 +10,9 @@ export function readGeoJson(bytes: Uint8Array, name: string): ReadResult {
   try {
     data = JSON.parse(text);
   } catch {
-    throw new FileReadError(`The file is not valid JSON: the error is at line ${lineAt(text, jsonErrorOffset(text))}`);
+    throw new FileReadError(
+      `The file is not valid JSON: the error is at line ${lineAt(text, jsonErrorOffset(text))}`,
+    );
   }
   const code = legacyCrsCode(data);
   const crs =
@@ -22,7 +24,8 @@ export function readGeoJson(bytes: Uint8Array, name: string): ReadResult {
   return { format: 'geojson', layers: [{ name: stem(name), data, crs }], warnings: [] };
 }
 
-export const stem = (fileName: string) => (fileName.split('/').pop() ?? fileName).replace(/\.[^.]*$/, '') || 'layer';
+export const stem = (fileName: string) =>
+  (fileName.split('/').pop() ?? fileName).replace(/\.[^.]*$/, '') || 'layer';
 
 /**
  * The offset of the first character at which `text` stops being JSON (RFC 8259), for the message: Node's

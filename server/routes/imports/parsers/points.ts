@@ -1,7 +1,8 @@
 import { GeoInputError } from '../../../../shared/geo/geo-input-error';
 import { PointTable } from './point-table';
 
-const isObject = (v: unknown): v is Record<string, unknown> => typeof v === 'object' && v !== null && !Array.isArray(v);
+const isObject = (v: unknown): v is Record<string, unknown> =>
+  typeof v === 'object' && v !== null && !Array.isArray(v);
 
 /**
  * The points of a GeoJSON object (Point and MultiPoint geometries, also inside GeometryCollections), each with
@@ -12,7 +13,11 @@ export function extractPoints(data: unknown, table: PointTable): { dropped: numb
   const features: { geometry: unknown; properties: unknown }[] = !isObject(data)
     ? []
     : data.type === 'FeatureCollection' && Array.isArray(data.features)
-      ? (data.features as unknown[]).map((f) => (isObject(f) ? { geometry: f.geometry, properties: f.properties } : { geometry: null, properties: null }))
+      ? (data.features as unknown[]).map((f) =>
+          isObject(f)
+            ? { geometry: f.geometry, properties: f.properties }
+            : { geometry: null, properties: null },
+        )
       : data.type === 'Feature'
         ? [{ geometry: data.geometry, properties: data.properties }]
         : [{ geometry: data, properties: {} }];
@@ -25,8 +30,10 @@ export function extractPoints(data: unknown, table: PointTable): { dropped: numb
     const visit = (g: unknown, depth: number) => {
       if (!isObject(g)) return void dropped++;
       if (g.type === 'Point') return add(g.coordinates, 0);
-      if (g.type === 'MultiPoint' && Array.isArray(g.coordinates)) return g.coordinates.forEach((p, i) => add(p, i));
-      if (g.type === 'GeometryCollection' && Array.isArray(g.geometries) && depth < 8) return g.geometries.forEach((c) => visit(c, depth + 1));
+      if (g.type === 'MultiPoint' && Array.isArray(g.coordinates))
+        return g.coordinates.forEach((p, i) => add(p, i));
+      if (g.type === 'GeometryCollection' && Array.isArray(g.geometries) && depth < 8)
+        return g.geometries.forEach((c) => visit(c, depth + 1));
       dropped++;
     };
     const add = (p: unknown, coordinate: number) => {

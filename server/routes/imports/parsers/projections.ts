@@ -12,8 +12,10 @@ export function projectionFor(code: string): string | null {
   if (!m) return null;
   const n = Number(m[1]);
   if (n === 4326 || n === 4269 || n === 4258 || n === 4283) return '+proj=longlat +datum=WGS84 +no_defs';
-  if (n === 3857 || n === 900913 || n === 3785) return '+proj=merc +a=6378137 +b=6378137 +lat_ts=0 +lon_0=0 +x_0=0 +y_0=0 +k=1 +units=m +nadgrids=@null +no_defs';
-  const utm = (zone: number, south: boolean) => `+proj=utm +zone=${zone} ${south ? '+south ' : ''}+datum=WGS84 +units=m +no_defs`;
+  if (n === 3857 || n === 900913 || n === 3785)
+    return '+proj=merc +a=6378137 +b=6378137 +lat_ts=0 +lon_0=0 +x_0=0 +y_0=0 +k=1 +units=m +nadgrids=@null +no_defs';
+  const utm = (zone: number, south: boolean) =>
+    `+proj=utm +zone=${zone} ${south ? '+south ' : ''}+datum=WGS84 +units=m +no_defs`;
   if (n >= 32601 && n <= 32660) return utm(n - 32600, false);
   if (n >= 32701 && n <= 32760) return utm(n - 32700, true);
   if (n >= 26901 && n <= 26923) return utm(n - 26900, false);

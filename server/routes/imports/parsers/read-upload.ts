@@ -36,8 +36,11 @@ async function readAny(bytes: Uint8Array, fileName: string): Promise<ReadResult>
   const first = String.fromCharCode(buf[i] ?? 0);
   if (first === '{') return readGeoJson(bytes, fileName);
   if (first === '<') return readKml(bytes, fileName);
-  if (e === 'shp' || e === 'dbf' || e === 'shx') throw new FileReadError('Send a shapefile as one zip holding its .shp, .shx, .dbf and .prj');
-  throw new FileReadError('Sowright reads GeoJSON, zipped shapefiles, KML, KMZ and CSV; this file is none of them');
+  if (e === 'shp' || e === 'dbf' || e === 'shx')
+    throw new FileReadError('Send a shapefile as one zip holding its .shp, .shx, .dbf and .prj');
+  throw new FileReadError(
+    'Sowright reads GeoJSON, zipped shapefiles, KML, KMZ and CSV; this file is none of them',
+  );
 }
 
 async function readZipped(buf: Buffer, fileName: string): Promise<ReadResult> {
@@ -49,7 +52,8 @@ async function readZipped(buf: Buffer, fileName: string): Promise<ReadResult> {
   }
   const kmls = [...files.keys()].filter(isRootKml);
   if (kmls.length === 1) return readKml(files.get(kmls[0])!, fileName, 'kmz');
-  if (kmls.length > 1) throw new FileReadError(`The KMZ holds ${kmls.length} KML documents at its top level; it must hold one`);
+  if (kmls.length > 1)
+    throw new FileReadError(`The KMZ holds ${kmls.length} KML documents at its top level; it must hold one`);
   throw new FileReadError('The zip holds neither a shapefile (.shp) nor a KML document');
 }
 
@@ -59,7 +63,10 @@ function reproject(features: PreviewFeatureIn[], fn: Projector): PreviewFeatureI
   const ring = (r: Position[]) => r.map((p) => fn(p));
   return features.map((f) => ({
     ...f,
-    geometry: { type: 'MultiPolygon', coordinates: f.geometry.coordinates.map((poly) => poly.map(ring)) } as MultiPolygon,
+    geometry: {
+      type: 'MultiPolygon',
+      coordinates: f.geometry.coordinates.map((poly) => poly.map(ring)),
+    } as MultiPolygon,
   }));
 }
 
@@ -87,13 +94,17 @@ function distanceM(a: number[], b: number[]) {
 export function rankCandidates(bbox: number[], reference: number[] | null): CrsCandidate[] {
   if (!reference) return [];
   const mid = [(bbox[0] + bbox[2]) / 2, (bbox[1] + bbox[3]) / 2];
-  const all = [...utmCandidates(reference[0], reference[1]), { code: 'EPSG:3857', label: 'WGS 84 / Pseudo-Mercator (web maps)' }];
+  const all = [
+    ...utmCandidates(reference[0], reference[1]),
+    { code: 'EPSG:3857', label: 'WGS 84 / Pseudo-Mercator (web maps)' },
+  ];
   const out: (CrsCandidate & { d: number })[] = [];
   for (const c of all) {
     const p = toWgs84(c.code)!(mid);
     if (!Number.isFinite(p[0]) || !Number.isFinite(p[1])) continue;
     const d = distanceM(p, reference);
-    if (d <= CANDIDATE_RADIUS_M) out.push({ code: c.code, label: `${c.label}: lands ${(d / 1000).toFixed(1)} km from this field`, d });
+    if (d <= CANDIDATE_RADIUS_M)
+      out.push({ code: c.code, label: `${c.label}: lands ${(d / 1000).toFixed(1)} km from this field`, d });
   }
   return out.sort((a, b) => a.d - b.d).map(({ code, label }) => ({ code, label }));
 }
@@ -104,11 +115,13 @@ function geometryTypeOf(layer: ReadLayer): string {
   const visit = (g: unknown) => {
     const o = g as { type?: unknown; geometries?: unknown[] } | null;
     if (!o || typeof o.type !== 'string') return;
-    if (o.type === 'GeometryCollection' && Array.isArray(o.geometries)) o.geometries.slice(0, 1000).forEach(visit);
+    if (o.type === 'GeometryCollection' && Array.isArray(o.geometries))
+      o.geometries.slice(0, 1000).forEach(visit);
     else types.add(o.type.replace(/^Multi/, ''));
   };
   const d = layer.data as { type?: string; features?: { geometry?: unknown }[]; geometry?: unknown } | null;
-  if (d?.type === 'FeatureCollection' && Array.isArray(d.features)) d.features.forEach((f) => visit(f?.geometry));
+  if (d?.type === 'FeatureCollection' && Array.isArray(d.features))
+    d.features.forEach((f) => visit(f?.geometry));
   else if (d?.type === 'Feature') visit(d.geometry);
   else visit(d);
   return types.size === 1 ? [...types][0] : types.size === 0 ? 'None' : 'Mixed';
@@ -121,11 +134,17 @@ function featureCountOf(layer: ReadLayer): number {
 }
 
 /** How one layer's coordinates become WGS84: a projector, nothing to do, or the user must choose. */
-function layerProjection(layer: ReadLayer, warnings: string[]): { fn: Projector | null; needsChoice: boolean; source: string } {
-  if (layer.crs.kind !== 'code' || isGeographicCode(layer.crs.code)) return { fn: null, needsChoice: false, source: layer.crs.source };
+function layerProjection(
+  layer: ReadLayer,
+  warnings: string[],
+): { fn: Projector | null; needsChoice: boolean; source: string } {
+  if (layer.crs.kind !== 'code' || isGeographicCode(layer.crs.code))
+    return { fn: null, needsChoice: false, source: layer.crs.source };
   const fn = toWgs84(layer.crs.code);
   if (fn) return { fn, needsChoice: false, source: `${layer.crs.source}, reprojected` };
-  warnings.push(`The file names ${layer.crs.code}, which Sowright cannot reproject: choose the coordinate system`);
+  warnings.push(
+    `The file names ${layer.crs.code}, which Sowright cannot reproject: choose the coordinate system`,
+  );
   return { fn: null, needsChoice: true, source: layer.crs.source };
 }
 
@@ -138,9 +157,14 @@ export async function readUpload(job: ParseJob): Promise<ParseOutcome> {
   const read = await readAny(job.bytes, job.fileName);
   const warnings = [...read.warnings];
   const wantPoints = job.purpose === 'points';
-  if (!wantPoints && read.format === 'csv') throw new FileReadError('A CSV holds points: import it as a data layer, not as polygons');
+  if (!wantPoints && read.format === 'csv')
+    throw new FileReadError('A CSV holds points: import it as a data layer, not as polygons');
 
-  const layers = read.layers.map((l) => ({ name: l.name, featureCount: featureCountOf(l), geometryType: geometryTypeOf(l) }));
+  const layers = read.layers.map((l) => ({
+    name: l.name,
+    featureCount: featureCountOf(l),
+    geometryType: geometryTypeOf(l),
+  }));
   let features: PreviewFeatureIn[] = [];
   let points: PointColumns | null = null;
   let needsChoice = false;
@@ -156,7 +180,8 @@ export async function readUpload(job: ParseJob): Promise<ParseOutcome> {
       if (!cols) {
         const table = new PointTable();
         const { dropped } = extractPoints(layer.data, table);
-        if (dropped) warnings.push(`${dropped} feature${dropped === 1 ? '' : 's'} that are not points skipped`);
+        if (dropped)
+          warnings.push(`${dropped} feature${dropped === 1 ? '' : 's'} that are not points skipped`);
         cols = table.toColumns();
       }
       if (proj.fn) cols = reprojectPoints(cols, proj.fn);
@@ -164,7 +189,11 @@ export async function readUpload(job: ParseJob): Promise<ParseOutcome> {
     } else {
       const n = normaliseFeatures(layer.data);
       warnings.push(...n.warnings.map((w) => (layerName ? `Layer "${layerName}": ${w}` : w)));
-      let fs: PreviewFeatureIn[] = n.features.map((f) => ({ ...f, index: offset + f.index, layer: layerName }));
+      let fs: PreviewFeatureIn[] = n.features.map((f) => ({
+        ...f,
+        index: offset + f.index,
+        layer: layerName,
+      }));
       if (proj.fn) fs = reproject(fs, proj.fn);
       features = features.concat(fs);
     }
@@ -179,7 +208,9 @@ export async function readUpload(job: ParseJob): Promise<ParseOutcome> {
     if (points) assertPointDegrees(points);
     else assertDegreesInRange(features);
     needsChoice = true;
-    warnings.push('The coordinates are not longitude and latitude degrees (some lie beyond ±180 / ±90): choose the coordinate system they are in');
+    warnings.push(
+      'The coordinates are not longitude and latitude degrees (some lie beyond ±180 / ±90): choose the coordinate system they are in',
+    );
   }
   if (needsChoice && job.crsCode) {
     const fn = toWgs84(job.crsCode);
@@ -193,8 +224,10 @@ export async function readUpload(job: ParseJob): Promise<ParseOutcome> {
   } else if (needsChoice) {
     const bbox = (space.kind === 'projected' ? space.bbox : bboxOf(asFeatures)) ?? [0, 0, 0, 0];
     const candidates = rankCandidates(bbox, job.reference);
-    if (!job.reference) warnings.push('No field location is known to suggest a coordinate system from: enter its EPSG code');
-    else if (candidates.length === 0) warnings.push('No usual coordinate system puts this data near the field: enter its EPSG code');
+    if (!job.reference)
+      warnings.push('No field location is known to suggest a coordinate system from: enter its EPSG code');
+    else if (candidates.length === 0)
+      warnings.push('No usual coordinate system puts this data near the field: enter its EPSG code');
     return {
       format: read.format,
       layers,
@@ -216,7 +249,13 @@ export async function readUpload(job: ParseJob): Promise<ParseOutcome> {
     crsChosen: sources.has(`${job.crsCode}, as you chose`),
     features,
     pointCount: points?.x.length,
-    points: points ? { lon: points.x, lat: points.y, columns: points.columns.map(({ name, values }) => ({ name, values })) } : null,
+    points: points
+      ? {
+          lon: points.x,
+          lat: points.y,
+          columns: points.columns.map(({ name, values }) => ({ name, values })),
+        }
+      : null,
     numericProperties: points ? numericSummary(points.columns) : undefined,
     warnings,
   };
@@ -227,7 +266,9 @@ function assertWorld(features: { index: number; geometry: Geometry }[], code: st
   const space = detectCoordinateSpace(features);
   if (space.kind === 'projected' || bboxOf(features)?.some((v) => !Number.isFinite(v))) {
     throw new FileReadError(
-      code ? `With ${code} the coordinates fall outside the globe: choose another coordinate system` : 'The coordinates fall outside the globe',
+      code
+        ? `With ${code} the coordinates fall outside the globe: choose another coordinate system`
+        : 'The coordinates fall outside the globe',
       code ? 'unknown_crs' : 'unreadable_file',
     );
   }
@@ -245,7 +286,15 @@ function cornersOf(p: PointColumns): MultiPoint {
     if (!(y >= s)) s = y;
     if (!(y <= n)) n = y;
   }
-  return { type: 'MultiPoint', coordinates: p.x.length ? [[w, s], [e, n]] : [] };
+  return {
+    type: 'MultiPoint',
+    coordinates: p.x.length
+      ? [
+          [w, s],
+          [e, n],
+        ]
+      : [],
+  };
 }
 
 /** Like assertDegreesInRange, for point columns: names the first point beyond ±180 / ±90 when the numbers are degree-sized. */
@@ -253,8 +302,10 @@ function assertPointDegrees(p: PointColumns) {
   const [[w, s], [e, n]] = cornersOf(p).coordinates;
   if (Math.max(Math.abs(w), Math.abs(e)) > 360 || Math.max(Math.abs(s), Math.abs(n)) > 180) return;
   for (let i = 0; i < p.x.length; i++) {
-    if (Math.abs(p.x[i]) > 180) throw new GeoInputError(`Longitude ${p.x[i]} of point ${i + 1} lies beyond ±180°`);
-    if (Math.abs(p.y[i]) > 90) throw new GeoInputError(`Latitude ${p.y[i]} of point ${i + 1} lies beyond ±90°`);
+    if (Math.abs(p.x[i]) > 180)
+      throw new GeoInputError(`Longitude ${p.x[i]} of point ${i + 1} lies beyond ±180°`);
+    if (Math.abs(p.y[i]) > 90)
+      throw new GeoInputError(`Latitude ${p.y[i]} of point ${i + 1} lies beyond ±90°`);
   }
 }
 
@@ -272,7 +323,10 @@ function concatPoints(a: PointColumns, b: PointColumns): PointColumns {
     const cb = pick(b, name);
     return {
       name,
-      values: join(ca?.values ?? new Float64Array(a.x.length).fill(Number.NaN), cb?.values ?? new Float64Array(b.x.length).fill(Number.NaN)),
+      values: join(
+        ca?.values ?? new Float64Array(a.x.length).fill(Number.NaN),
+        cb?.values ?? new Float64Array(b.x.length).fill(Number.NaN),
+      ),
       texts: (ca?.texts ?? 0) + (cb?.texts ?? 0),
     };
   });

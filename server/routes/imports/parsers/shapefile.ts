@@ -28,7 +28,9 @@ const SHAPE_TYPES: Record<number, string> = {
 /** ESRI Shapefile Technical Description (1998): file code 9994 (big-endian) at byte 0, version 1000 (little-endian) at byte 28. */
 function assertMagic(buf: Buffer, file: string) {
   if (buf.length < 100 || buf.readInt32BE(0) !== 9994 || buf.readInt32LE(28) !== 1000) {
-    throw new FileReadError(`"${file}" is not a shapefile part (its header does not start with file code 9994, version 1000)`);
+    throw new FileReadError(
+      `"${file}" is not a shapefile part (its header does not start with file code 9994, version 1000)`,
+    );
   }
 }
 
@@ -38,7 +40,9 @@ const shortName = (name: string) => name.split('/').pop() ?? name;
 
 /** Whether a zip entry is a shapefile part we read (resource forks of macOS archivers skipped). */
 export const isShapefilePart = (name: string) =>
-  /\.(shp|shx|dbf|prj|cpg)$/i.test(name) && !name.startsWith('__MACOSX/') && !shortName(name).startsWith('._');
+  /\.(shp|shx|dbf|prj|cpg)$/i.test(name) &&
+  !name.startsWith('__MACOSX/') &&
+  !shortName(name).startsWith('._');
 
 /**
  * The layers of a zipped shapefile, from its already inflated parts (see server/lib/zip-inspect.ts). Each .shp
@@ -69,7 +73,8 @@ function readLayer(name: string, parts: Map<string, Buffer>, shp: Buffer, warnin
   if (shx) assertMagic(shx, `${name}.shx`);
   const shapeType = shp.readInt32LE(32);
   const geometryType = SHAPE_TYPES[shapeType];
-  if (!geometryType) throw new FileReadError(`Layer "${name}": unknown shape type ${shapeType} in the .shp header`);
+  if (!geometryType)
+    throw new FileReadError(`Layer "${name}": unknown shape type ${shapeType} in the .shp header`);
 
   const prjText = parts.get('prj')?.toString('utf8').trim() || undefined;
   let prj = prjText;
@@ -77,7 +82,9 @@ function readLayer(name: string, parts: Map<string, Buffer>, shp: Buffer, warnin
     try {
       proj4(prjText);
     } catch {
-      warnings.push(`Layer "${name}": its .prj cannot be read as a coordinate system, so its coordinates are taken as they are`);
+      warnings.push(
+        `Layer "${name}": its .prj cannot be read as a coordinate system, so its coordinates are taken as they are`,
+      );
       prj = undefined;
     }
   }
@@ -85,7 +92,9 @@ function readLayer(name: string, parts: Map<string, Buffer>, shp: Buffer, warnin
   try {
     rows = parseShp(shp, prj);
   } catch (err) {
-    throw new FileReadError(`Layer "${name}": the .shp cannot be read (${String((err as Error).message).slice(0, 120)})`);
+    throw new FileReadError(
+      `Layer "${name}": the .shp cannot be read (${String((err as Error).message).slice(0, 120)})`,
+    );
   }
   if (shx) {
     const indexed = (shx.length - 100) / 8;
@@ -100,15 +109,21 @@ function readLayer(name: string, parts: Map<string, Buffer>, shp: Buffer, warnin
   if (dbf) {
     const declared = dbf.length >= 8 ? dbf.readUInt32LE(4) : -1;
     if (declared !== rows.length) {
-      throw new FileReadError(`Layer "${name}": the .dbf holds ${declared} records but the .shp holds ${rows.length} shapes; they must match one to one`);
+      throw new FileReadError(
+        `Layer "${name}": the .dbf holds ${declared} records but the .shp holds ${rows.length} shapes; they must match one to one`,
+      );
     }
     try {
       records = parseDbf(dbf, parts.get('cpg')?.toString('utf8').trim() || undefined);
     } catch (err) {
-      throw new FileReadError(`Layer "${name}": the .dbf cannot be read (${String((err as Error).message).slice(0, 120)})`);
+      throw new FileReadError(
+        `Layer "${name}": the .dbf cannot be read (${String((err as Error).message).slice(0, 120)})`,
+      );
     }
     if (records.length !== rows.length) {
-      throw new FileReadError(`Layer "${name}": the .dbf holds ${records.length} readable records but the .shp holds ${rows.length} shapes`);
+      throw new FileReadError(
+        `Layer "${name}": the .dbf holds ${records.length} readable records but the .shp holds ${rows.length} shapes`,
+      );
     }
   } else {
     warnings.push(`Layer "${name}" has no .dbf, so its shapes carry no attributes`);

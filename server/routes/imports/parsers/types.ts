@@ -21,7 +21,10 @@ export type ReadLayer = {
   data: unknown;
   points?: PointColumns;
   /** How the coordinates are known: WGS84 as read, reprojected through a .prj already, or an EPSG code to reproject from. */
-  crs: { kind: 'wgs84'; source: string } | { kind: 'reprojected'; source: string } | { kind: 'code'; code: string; source: string };
+  crs:
+    | { kind: 'wgs84'; source: string }
+    | { kind: 'reprojected'; source: string }
+    | { kind: 'code'; code: string; source: string };
   /** Said by the file itself (a shapefile's shape type); otherwise worked out from the features. */
   geometryType?: string;
 };
@@ -29,14 +32,20 @@ export type ReadLayer = {
 export type ReadResult = { format: ImportFormat; layers: ReadLayer[]; warnings: string[] };
 
 /** Point layers travel as columns (typed arrays transfer cheaply between threads). */
-export type PointColumns = { x: Float64Array; y: Float64Array; columns: { name: string; values: Float64Array; texts: number }[] };
+export type PointColumns = {
+  x: Float64Array;
+  y: Float64Array;
+  columns: { name: string; values: Float64Array; texts: number }[];
+};
 
 export type PreviewFeatureIn = NormalFeature & { layer: string | null };
 
 export type ParseOutcome = {
   format: ImportFormat;
   layers: { name: string; featureCount: number; geometryType: string }[];
-  coordinates: { kind: 'geographic'; source: string } | { kind: 'projected'; bbox: number[]; candidates: CrsCandidate[] };
+  coordinates:
+    | { kind: 'geographic'; source: string }
+    | { kind: 'projected'; bbox: number[]; candidates: CrsCandidate[] };
   /** True when the coordinates were read with the code the user chose (the file did not say). */
   crsChosen: boolean;
   features: PreviewFeatureIn[];
@@ -46,4 +55,6 @@ export type ParseOutcome = {
   warnings: string[];
 };
 
-export type WorkerReply = { ok: true; outcome: ParseOutcome } | { ok: false; code: string; message: string; details?: { path: (string | number)[]; message: string }[] };
+export type WorkerReply =
+  | { ok: true; outcome: ParseOutcome }
+  | { ok: false; code: string; message: string; details?: { path: (string | number)[]; message: string }[] };
