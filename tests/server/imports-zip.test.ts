@@ -175,6 +175,22 @@ describe('zip inspection before inflating', () => {
 });
 
 describe('the parse worker', () => {
+  it('ends a read that needs more heap than allowed and says so', async () => {
+    const features = Array.from({ length: 20_000 }, (_, i) => ({
+      type: 'Feature',
+      properties: { i, note: 'x'.repeat(50) },
+      geometry: { type: 'Polygon', coordinates: [square(-93.6, 42, 0.001)] },
+    }));
+    const bytes = Buffer.from(JSON.stringify({ type: 'FeatureCollection', features }));
+    const job = { bytes, fileName: 'big.geojson', purpose: 'zones' as const, crsCode: null, reference: null };
+    await expect(
+      parseInWorker(job, { timeoutMs: 20_000, maxOldGenerationSizeMb: 16, maxYoungGenerationSizeMb: 4 }),
+    ).rejects.toMatchObject({
+      code: 'unreadable_file',
+      message: expect.stringMatching(/memory/),
+    });
+  });
+
   it('terminates a read that takes too long and says so', async () => {
     const bytes = fixture('zones-crs84.geojson');
     const job = { bytes, fileName: 'z.geojson', purpose: 'zones' as const, crsCode: null, reference: null };

@@ -361,6 +361,24 @@ describe('points', () => {
     expect(long.body.error.message).toMatch(/Line 3/);
   });
 
+  it('a CSV of UTM metres is answered as projected; choosing the zone gives the points in degrees', async () => {
+    // 93° W, 45° N is the central meridian of UTM 15N: easting 500 000 m, northing about 4 983 000 m (derived).
+    const csv = 'x,y,om\n500000,4983000,3.1\n500100,4983000,3.3\n500100,4983100,2.9\n';
+    const p = preview(await upload(agro(), field45.id, 'points', 'utm.csv', csv));
+    expect(p.coordinates.kind).toBe('projected');
+    expect(p.pointCount).toBe(3);
+    const chosen = preview(
+      await agro().post(`/api/imports/${p.id}/coordinates`, { code: 'EPSG:32615' }),
+      200,
+    );
+    expect(chosen.coordinates.kind).toBe('geographic');
+    const pts = await loadImportPoints(actorOf(w), p.id, 'om');
+    expect(pts).toHaveLength(3);
+    expect(pts[0].lon).toBeCloseTo(-93, 6);
+    expect(pts[0].lat).toBeGreaterThan(44.98);
+    expect(pts[0].lat).toBeLessThan(45.02);
+  });
+
   it('reads GeoJSON points (MultiPoint too)', async () => {
     const gj = {
       type: 'FeatureCollection',
