@@ -17,7 +17,7 @@ import {
 } from '../../server/lib/shapefile-write';
 import { startTestApp, type TestApp } from '../helpers/app';
 import { makeWorld, type World } from '../helpers/factory';
-import { addZone, cell, createMap, multi, polygon, rel, tidy } from './zone-maps.helpers';
+import { addZone, cell, createMap, getBytes, multi, polygon, rel, tidy } from './zone-maps.helpers';
 
 let t: TestApp;
 let w: World;
@@ -100,14 +100,7 @@ function expectSameZones(read: Read[]) {
 }
 
 const exportOf = (format: string) =>
-  w.callers.consultant
-    .get(`/api/zone-maps/${map.id}/export?format=${format}`)
-    .buffer(true)
-    .parse((res, cb) => {
-      const chunks: Buffer[] = [];
-      res.on('data', (c: Buffer) => chunks.push(c));
-      res.on('end', () => cb(null, Buffer.concat(chunks)));
-    });
+  getBytes(w.callers.consultant, `/api/zone-maps/${map.id}/export?format=${format}`);
 
 function unzipEntries(buf: Buffer): Promise<Map<string, Buffer>> {
   return new Promise((resolve, reject) => {

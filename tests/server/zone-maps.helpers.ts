@@ -108,3 +108,14 @@ export async function tidy(caller: Caller, start: ZoneMap): Promise<ZoneMap> {
   }
   return expectMap(await caller.post(`/api/zone-maps/${map.id}/fill-gaps`, { version: map.version }));
 }
+
+/** GET as the caller, the body kept as raw bytes whatever its media type (for exported files). */
+export const getBytes = (caller: Caller, url: string) =>
+  caller
+    .get(url)
+    .buffer(true)
+    .parse((res, cb) => {
+      const chunks: Buffer[] = [];
+      res.on('data', (c: Buffer) => chunks.push(c));
+      res.on('end', () => cb(null, Buffer.concat(chunks)));
+    });

@@ -1,4 +1,10 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { QueryTypes } from 'sequelize';
+import { execFileSync } from 'node:child_process';
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { insertZone } from '../../server/routes/zone-maps/zone-store';
 import { CropSeason, Field } from '../../server/db/associations';
 import { Zone } from '../../server/db/models/zone.model';
 import { ZoneMap } from '../../server/db/models/zone-map.model';
@@ -12,6 +18,7 @@ import {
   createMap,
   del,
   expectMap,
+  getBytes,
   multi,
   polygon,
   rel,
@@ -564,5 +571,112 @@ describe('bad zone geometry', () => {
     expect(res.status).toBe(422);
     // The crossing of the bow-tie is the middle of the field (derived from the case above).
     expect(res.body.error.message).toContain(`${W + SIDE / 2}, ${S + SIDE / 2}`);
+  });
+});
+
+describe('what PostGIS lets into the table', () => {
+  it('stores a shape shared/geo left invalid as ST_MakeValid makes it (polygons only), never invalid', async () => {
+    const map = await createMap(agro, w, 'Make valid');
+    const row = await ZoneMap.findByPk(map.id);
+    // A bow-tie: two triangles touching at the middle of the field once made valid.
+    const bowTie = multi([
+      [
+        [W, S],
+        [W + SIDE, S + SIDE],
+        [W + SIDE, S],
+        [W, S + SIDE],
+        [W, S],
+      ],
+    ]);
+    const id = await t.sequelize.transaction((tx) =>
+      insertZone(tx, row!, {
+        name: 'Bow-tie',
+        classValue: null,
+        productivityIndex: null,
+        isDefault: false,
+        meanValue: null,
+        geometry: bowTie,
+      }),
+    );
+    const [stored] = await t.sequelize.query<{
+      valid: boolean;
+      type: string;
+      area: number;
+      expected: number;
+    }>(
+      `SELECT ST_IsValid(geometry) AS valid, GeometryType(geometry) AS type, area_m2 AS area,
+              ST_Area(ST_CollectionExtract(ST_MakeValid(ST_SetSRID(ST_GeomFromGeoJSON(:g), 4326)), 3)::geography, true) AS expected
+         FROM zones WHERE id = :id`,
+      { replacements: { id, g: JSON.stringify(bowTie) }, type: QueryTypes.SELECT },
+    );
+    expect(stored).toMatchObject({ valid: true, type: 'MULTIPOLYGON' });
+    expect(rel(stored.area, stored.expected)).toBeLessThan(1e-9);
+    // Two triangles, each a quarter of the square (derived).
+    expect(rel(stored.area, map.analysis.boundaryAreaM2 / 2)).toBeLessThan(1e-3);
+  });
+
+  it('refuses an invalid row even written around the service (the CHECK constraint)', async () => {
+    const map = await createMap(agro, w, 'Check constraint');
+    await expect(
+      t.sequelize.query(
+        `INSERT INTO zones (zone_map_id, workspace_id, name, geometry)
+         VALUES (:mapId, :ws, 'Raw', ST_GeomFromText('MULTIPOLYGON(((0 0, 1 1, 1 0, 0 1, 0 0)))', 4326))`,
+        { replacements: { mapId: map.id, ws: w.ws.id } },
+      ),
+    ).rejects.toThrow(/check constraint/i);
+  });
+});
+
+describe('two edits at once', () => {
+  it('lets one of two edits made on the same version through and answers the other 409 stale', async () => {
+    const map = await createMap(agro, w, 'Race');
+    const body = (name: string) => ({
+      version: map.version,
+      name,
+      geometry: polygon(cell(0.2, 0.2, 0.4, 0.4)),
+      classValue: null,
+      productivityIndex: null,
+    });
+    const [a, b] = await Promise.all([
+      agro.post(`/api/zone-maps/${map.id}/zones`, body('First')),
+      w.callers.admin.post(`/api/zone-maps/${map.id}/zones`, body('Second')),
+    ]);
+    expect([a.status, b.status].sort()).toEqual([200, 409]);
+    const after = expectMap(await agro.get(`/api/zone-maps/${map.id}`));
+    expect(after.version).toBe(map.version + 1);
+    expect(after.zones.features).toHaveLength(2);
+  });
+});
+
+describe('an empty zone map', () => {
+  it('exports as an empty collection and an empty shapefile that GDAL opens', async () => {
+    let map = await createMap(agro, w, 'Empty');
+    map = expectMap(
+      await del(
+        agro,
+        `/api/zone-maps/${map.id}/zones/${map.zones.features[0].properties.id}?version=${map.version}`,
+      ),
+    );
+    expect(map.zones.features).toEqual([]);
+    expect(rel(map.analysis.gapAreaM2, map.analysis.boundaryAreaM2)).toBeLessThan(1e-9);
+    const geojson = await getBytes(agro, `/api/zone-maps/${map.id}/export?format=geojson`);
+    expect(geojson.status).toBe(200);
+    expect(JSON.parse((geojson.body as Buffer).toString('utf8'))).toEqual({
+      type: 'FeatureCollection',
+      features: [],
+    });
+    const shp = await getBytes(agro, `/api/zone-maps/${map.id}/export?format=shapefile`);
+    expect(shp.status).toBe(200);
+    expect(shp.headers['content-type']).toBe('application/zip');
+    const dir = mkdtempSync(path.join(os.tmpdir(), 'sowright-empty-'));
+    try {
+      writeFileSync(path.join(dir, 'empty.zip'), shp.body as Buffer);
+      const info = execFileSync('ogrinfo', ['-al', '-so', `/vsizip/${path.join(dir, 'empty.zip')}`], {
+        encoding: 'utf8',
+      });
+      expect(info).toMatch(/Feature Count: 0\b/);
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
   });
 });
