@@ -1,3 +1,4 @@
+import geodesic from 'geographiclib-geodesic';
 import { booleanPointInPolygon } from '@turf/turf';
 import type { Feature, LineString, MultiPolygon, Polygon, Position } from 'geojson';
 import { geodesicAreaM2 } from './geodesic-area';
@@ -13,6 +14,8 @@ import {
   unionAreas,
 } from './polygon-clip';
 import { ringOrientation } from './rewind';
+
+const { Geodesic } = geodesic;
 
 /**
  * Every zone operation takes and returns zone features: a MultiPolygon geometry ([lon, lat], WGS84) and
@@ -278,6 +281,49 @@ function cleanLine(line: LineString): Pt[] {
 }
 
 /**
+ * Moves every vertex that clipping put on an edge of the zone onto that edge's geodesic (WGS84). Clipping is
+ * planar in lon/lat, but areas are geodesic: a cut point on the straight lon/lat chord of a 300 m edge sits
+ * about a millimetre off the geodesic and the halves' areas would then miss the zone's by a few 1e-6. Both
+ * halves share the moved point, so they still meet exactly. Returns a new MultiPolygon.
+ */
+function snapToZoneEdges(g: MultiPolygon, zoneRings: Position[][]): MultiPolygon {
+  const own = new Set(zoneRings.flat().map((p) => `${p[0]},${p[1]}`));
+  const cache = new Map<string, Position>();
+  const snap = (p: Position): Position => {
+    const key = `${p[0]},${p[1]}`;
+    if (own.has(key)) return [p[0], p[1]];
+    const hit = cache.get(key);
+    if (hit) return [...hit];
+    let best: { d: number; a: Position; b: Position; t: number } | null = null;
+    for (const ring of zoneRings) {
+      for (let i = 0; i + 1 < ring.length; i++) {
+        const [a, b] = [ring[i], ring[i + 1]];
+        const dx = b[0] - a[0];
+        const dy = b[1] - a[1];
+        const len2 = dx * dx + dy * dy;
+        if (!len2) continue;
+        const t = Math.min(1, Math.max(0, ((p[0] - a[0]) * dx + (p[1] - a[1]) * dy) / len2));
+        const d = Math.hypot(a[0] + t * dx - p[0], a[1] + t * dy - p[1]);
+        if (!best || d < best.d) best = { d, a, b, t };
+      }
+    }
+    let out: Position = [p[0], p[1]];
+    // Only points lying on an edge (1e-9° is about 0.1 mm): the others are the line's own vertices.
+    if (best && best.d < 1e-9) {
+      const line = Geodesic.WGS84.InverseLine(best.a[1], best.a[0], best.b[1], best.b[0]);
+      const pos = line.Position(best.t * line.s13);
+      out = [pos.lon2!, pos.lat2!];
+    }
+    cache.set(key, out);
+    return [...out];
+  };
+  return {
+    type: 'MultiPolygon',
+    coordinates: g.coordinates.map((rings) => rings.map((ring) => ring.map(snap))),
+  };
+}
+
+/**
  * Splits a zone along a drawn line (a LineString in [lon, lat]; it may run past the zone's edge). Every part
  * of the zone the line crosses is cut; parts it does not cross go whole to the side they lie on. Returns
  * [left, right] of the line as drawn, each non-empty; their areas add up to the zone's. Holes are kept.
@@ -316,8 +362,9 @@ export function splitZone(zone: AreaLike, line: LineString): [MultiPolygon, Mult
   if (!crossed || !left.length || !right.length) {
     throw new GeoInputError('The split line does not divide the zone: draw it right across the zone');
   }
-  const a: MultiPolygon = { type: 'MultiPolygon', coordinates: left };
-  const b: MultiPolygon = { type: 'MultiPolygon', coordinates: right };
+  const zoneRings = mp.coordinates.flat();
+  const a = snapToZoneEdges({ type: 'MultiPolygon', coordinates: left }, zoneRings);
+  const b = snapToZoneEdges({ type: 'MultiPolygon', coordinates: right }, zoneRings);
   // The side polygon lies left of the line when it is wound counter-clockwise.
   return ringOrientation(side.coordinates[0]) > 0 ? [a, b] : [b, a];
 }

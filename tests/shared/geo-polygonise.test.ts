@@ -5,6 +5,7 @@
  * purpose (then read the diff). Coordinates compare at 7 decimals, areas at 0.01 m².
  */
 import { describe, expect, it } from 'vitest';
+import fc from 'fast-check';
 import type { MultiPolygon } from 'geojson';
 import { geodesicAreaM2 } from '../../shared/geo/geodesic-area';
 import { type GridFrame, cellCorner } from '../../shared/geo/grid-frame';
@@ -16,6 +17,7 @@ import {
   polygoniseClasses,
 } from '../../shared/geo/polygonise-classes';
 import { ringOrientation } from '../../shared/geo/rewind';
+import { findOverlaps } from '../../shared/geo/zone-ops';
 import { goldenCases } from './geo-golden';
 
 type Input = { op: string; grid: GridFrame; classOf: number[]; boundary: MultiPolygon; minAreaM2?: number };
@@ -152,5 +154,31 @@ describe('dissolveSmall', () => {
     const out = dissolveSmall(onlyCorner, 150);
     expect(out).toHaveLength(1);
     expect(geodesicAreaM2(out[0].geometry) / 200).toBeCloseTo(1, 3);
+  });
+});
+
+describe('property: polygonised classes tile the boundary', () => {
+  it('for random class rasters, parts cover the boundary without overlap and keep each class', () => {
+    fc.assert(
+      fc.property(fc.array(fc.integer({ min: -1, max: 2 }), { minLength: 20, maxLength: 20 }), (cells) => {
+        const f = frame(5, 4);
+        const [w, s] = cellCorner(f, 0.4, 0.2);
+        const [e, n] = cellCorner(f, 4.7, 3.9);
+        const boundary: MultiPolygon = { type: 'MultiPolygon', coordinates: [[[[w, s], [e, s], [e, n], [w, n], [w, s]]]] }; // prettier-ignore
+        const parts = polygoniseClasses(f, Int32Array.from(cells), boundary);
+        const total = parts.reduce((sum, p) => sum + geodesicAreaM2(p.geometry), 0);
+        if (cells.every((c) => c < 0)) return expect(parts).toEqual([]);
+        expect(Math.abs(total / geodesicAreaM2(boundary) - 1)).toBeLessThan(1e-5);
+        const classes = new Set(cells.filter((c) => c >= 0));
+        expect(new Set(parts.map((p) => p.classIndex))).toEqual(classes);
+        const feats = parts.map((p, i) => ({
+          type: 'Feature' as const,
+          properties: { id: String(i) },
+          geometry: p.geometry,
+        }));
+        expect(findOverlaps(feats)).toEqual([]);
+      }),
+      { numRuns: 40, seed: 5 },
+    );
   });
 });

@@ -280,3 +280,28 @@ describe('property: clip, resolve and fill make zones add up to the boundary', (
     );
   });
 });
+
+describe('property: a split always adds up', () => {
+  it('for random lines across a zone with a hole, the halves are non-empty and sum to the zone within 1e-6', () => {
+    const holed = mp([rect(0, 0, 300, 200), rect(100, 50, 200, 150)]);
+    const whole = area(holed);
+    fc.assert(
+      // Lines from west of the zone to east of it, bending at a point inside it, so they cross it.
+      fc.property(
+        fc.integer({ min: 5, max: 195 }),
+        fc.integer({ min: 5, max: 195 }),
+        fc.integer({ min: 5, max: 195 }),
+        fc.integer({ min: 20, max: 280 }),
+        (y0, y1, ym, xm) => {
+          const line = lineOf([[-30, y0], [xm, ym], [330, y1]]); // prettier-ignore
+          const [l, r] = splitZone(holed, line);
+          expect(area(l)).toBeGreaterThan(0);
+          expect(area(r)).toBeGreaterThan(0);
+          expect(Math.abs(area(l) + area(r) - whole) / whole).toBeLessThan(1e-6);
+          expect(findOverlaps([zone('l', l), zone('r', r)])).toEqual([]);
+        },
+      ),
+      { numRuns: 40, seed: 11 },
+    );
+  });
+});
