@@ -14,7 +14,7 @@ export function MapLegend({ title, entries, note }: { title: string; entries: Le
               aria-hidden
               className={`inline-block h-3 w-4 shrink-0 rounded-[2px] ${e.outline === 'dashed' ? 'border-2 border-dashed' : 'border border-ink/30'}`}
               style={{
-                backgroundColor: e.outline ? 'transparent' : e.colour,
+                backgroundColor: e.outline || e.hatch ? 'transparent' : e.colour,
                 borderColor: e.outline ? e.colour : undefined,
                 backgroundImage: e.hatch ? `repeating-linear-gradient(135deg, ${e.colour} 0 2px, transparent 2px 5px)` : undefined,
               }}

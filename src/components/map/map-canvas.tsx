@@ -172,7 +172,8 @@ export default function MapCanvas(props: MapFrameProps) {
     const map = mapRef.current;
     const p = latest.current;
     if (!map) return;
-    const shapes: Geometry[] = p.boundary ? [p.boundary] : [...(p.areas ?? []).map((a) => a.geometry)];
+    // The field and everything drawn on it: a file's features may lie beside the field, or elsewhere.
+    const shapes: Geometry[] = [...(p.boundary ? [p.boundary] : []), ...(p.areas ?? []).map((a) => a.geometry)];
     const positions = shapes.flatMap(positionsOf).concat((p.points ?? []).map((pt) => pt.position));
     const b = bboxOf(positions);
     if (!b) return;

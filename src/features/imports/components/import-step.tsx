@@ -91,7 +91,12 @@ export function ImportStep({
         <p className="text-sm text-ink-soft">
           Read <span className="font-medium text-ink">{shown.fileName}</span> as {FORMAT_WORDS[shown.format]}
           {shown.layers.length > 1 ? `, ${shown.layers.length} layers (${shown.layers.map((l) => `${l.name}: ${l.featureCount}`).join(', ')})` : ''}
-          {shown.pointCount != null ? `, ${shown.pointCount.toLocaleString('en-US')} points` : `, ${shown.features.length} polygon ${shown.features.length === 1 ? 'feature' : 'features'}`}.
+          {pending
+            ? '; its positions need their coordinate system first'
+            : shown.pointCount != null
+              ? `, ${shown.pointCount.toLocaleString('en-US')} points`
+              : `, ${shown.features.length} polygon ${shown.features.length === 1 ? 'feature' : 'features'}`}
+          .
         </p>
       ) : null}
       {shown && shown.warnings.length ? (

@@ -18,7 +18,7 @@ export function ClassHistogram({ bins, breaks, attribute }: { bins: Bin[]; break
   const [lo, hi] = [bins[0].from, bins[bins.length - 1].to];
   const span = hi - lo || 1;
   const most = Math.max(...bins.map((b) => b.count), 1);
-  const [w, h, pad, base] = [600, 170, 8, 140];
+  const [w, h, pad, base] = [380, 150, 8, 118];
   const x = (v: number) => pad + ((v - lo) / span) * (w - 2 * pad);
   const y = (n: number) => base - (n / most) * (base - 14);
   const d = decimalsFor(span);
@@ -43,7 +43,7 @@ export function ClassHistogram({ bins, breaks, attribute }: { bins: Bin[]; break
         {breaks.map((b, i) => (
           <g key={i}>
             <line x1={x(b)} x2={x(b)} y1={6} y2={base + 4} stroke="#1f2630" strokeWidth={1.25} strokeDasharray="4 3" />
-            <text x={x(b)} y={base + 16} textAnchor="middle" className="fill-ink font-mono text-[10px]">
+            <text x={x(b)} y={base + 14} textAnchor="middle" className="fill-ink font-mono text-[10px]">
               {formatNumber(b, d)}
             </text>
           </g>

@@ -8,8 +8,9 @@ export type ZoneColouring = { by: 'index' | 'class' | 'none'; colourOf: (z: Zone
 const distinct = (values: (number | null)[]) => [...new Set(values.filter((v): v is number => v != null))].sort((a, b) => a - b);
 
 /**
- * Zone colours on the cividis ramp: by productivity index when any zone has one (its value placed between
- * the lowest and highest index), else by class (each class its own step), else one neutral colour.
+ * Zone colours on the cividis ramp: by productivity index when at least as many zones carry one as carry a
+ * class (its value placed between the lowest and highest index), else by class (each class its own step);
+ * one neutral colour when no zone has either.
  */
 export function zoneColouring(zones: ZoneProps[]): ZoneColouring {
   const indexes = distinct(zones.map((z) => z.productivityIndex));
@@ -18,7 +19,8 @@ export function zoneColouring(zones: ZoneProps[]): ZoneColouring {
     zones.some((z) => (word === 'index' ? z.productivityIndex : z.classValue) == null)
       ? [{ key: 'none', colour: NO_VALUE_COLOUR, label: word === 'index' ? 'No index' : 'No class' }]
       : [];
-  if (indexes.length) {
+  const count = (key: 'productivityIndex' | 'classValue') => zones.filter((z) => z[key] != null).length;
+  if (indexes.length && count('productivityIndex') >= count('classValue')) {
     const [lo, hi] = [indexes[0], indexes[indexes.length - 1]];
     const t = (v: number) => (hi === lo ? 0.5 : (v - lo) / (hi - lo));
     return {

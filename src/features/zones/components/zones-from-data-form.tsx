@@ -35,6 +35,14 @@ const LABELS = { attribute: 'Attribute', method: 'How to class', classes: 'Zones
 /** The API's names for the converted inputs, so its refusals land beside the right input. */
 const API_TO_FORM: Record<string, keyof Values> = { cellSizeM: 'cellSize', minAreaM2: 'minArea' };
 
+/** The values a class holds, from the breaks: "to 190.26", "190.26 to 211.40", "above 225.96". */
+const classRange = (breaks: number[], i: number) =>
+  i === 0
+    ? `to ${formatNumber(breaks[0] ?? 0, 2)}`
+    : i === breaks.length
+      ? `above ${formatNumber(breaks[i - 1], 2)}`
+      : `${formatNumber(breaks[i - 1], 2)} to ${formatNumber(breaks[i], 2)}`;
+
 const lengthUnit = (s: UnitSystem) => (s === 'imperial' ? 'ft' : 'm');
 const cellToM = (v: number, s: UnitSystem) => (s === 'imperial' ? v * M_PER_FT : v);
 const areaToM2 = (v: number, s: UnitSystem) => (s === 'imperial' ? acToM2(v) : haToM2(v));
@@ -184,7 +192,7 @@ export function ZonesFromDataForm({
                   entries={colours.map((c, i) => ({
                     key: String(i),
                     colour: c,
-                    label: `Class ${i + 1}${i === 0 ? ` (to ${formatNumber(result.breaks[0] ?? 0, 2)})` : i === colours.length - 1 ? ` (above ${formatNumber(result.breaks[i - 1] ?? 0, 2)})` : ''}`,
+                    label: `Class ${i + 1}: ${classRange(result.breaks, i)}`,
                   }))}
                 />
               }
