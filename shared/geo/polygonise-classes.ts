@@ -328,7 +328,8 @@ function adjacency(parts: ClassPart[]): {
  * Merges every part smaller than `minAreaM2` (geodesic m²) into a neighbour: the one sharing the longest edge
  * with it or, when none shares an edge, the largest part touching it; the merged part keeps the neighbour's
  * class. Smallest fragments go first and merged areas add up, so a merge can take several steps. A part with
- * no neighbour at all keeps its class. Returns new parts; geometry of merged groups is their union.
+ * no neighbour at all keeps its class. Returns new parts; geometry of merged groups is their union. Shared
+ * edges are found along grid lines, so the parts should come from {@link polygoniseClasses}.
  */
 export function dissolveSmall(parts: ClassPart[], minAreaM2: number): ClassPart[] {
   if (!(minAreaM2 > 0) || parts.length < 2) return parts.map((p) => ({ ...p }));

@@ -1,6 +1,7 @@
 import type { MultiPolygon, Polygon } from 'geojson';
 import { type ClassMethod, type Histogram, classBreaks, classify, histogram } from './class-breaks';
 import { geodesicAreaM2 } from './geodesic-area';
+import { GeoInputError } from './geo-input-error';
 import { type ValuePoint, idwGrid } from './interpolate-idw';
 import { dissolveSmallCells, polygoniseClasses } from './polygonise-classes';
 
@@ -42,6 +43,11 @@ export function zonesFromPoints(
   const grid = idwGrid(points, boundary, options);
   const valued: number[] = [];
   for (const v of grid.values) if (Number.isFinite(v)) valued.push(v);
+  if (valued.length === 0) {
+    throw new GeoInputError(
+      `No ${options.cellSizeM} m cell has its centre inside the boundary: choose a smaller cell size`,
+    );
+  }
   const breaks = classBreaks(valued, options.classes, options.method);
   const classOf = new Int32Array(grid.values.length);
   const classSum = new Float64Array(breaks.length + 1);

@@ -4,6 +4,7 @@ import { describe, expect, it } from 'vitest';
 const SLOW = { timeout: 60_000 };
 import type { MultiPolygon } from 'geojson';
 import { geodesicAreaM2 } from '../../shared/geo/geodesic-area';
+import { GeoInputError } from '../../shared/geo/geo-input-error';
 import { offsetPosition, ringFromOffsets } from '../../shared/geo/offset-position';
 import { ringOrientation } from '../../shared/geo/rewind';
 import type { ValuePoint } from '../../shared/geo/interpolate-idw';
@@ -130,6 +131,18 @@ describe('zonesFromPoints', () => {
       expect(Math.abs((cells * 100) / geodesicAreaM2(boundary) - 1)).toBeLessThan(0.03);
     },
   );
+
+  it('refuses a cell size larger than the field with GeoInputError', () => {
+    const tiny: MultiPolygon = { type: 'MultiPolygon', coordinates: [[ringFromOffsets(O, [[0, 0], [3, 0], [3, 3], [0, 3]])]] }; // prettier-ignore
+    expect(() =>
+      zonesFromPoints(twoHalves.slice(0, 50), tiny, {
+        classes: 2,
+        method: 'quantile',
+        cellSizeM: 50,
+        minAreaM2: 0,
+      }),
+    ).toThrow(GeoInputError);
+  });
 
   it('does not mutate its inputs', SLOW, () => {
     const pts = twoHalves.slice(0, 4000);
