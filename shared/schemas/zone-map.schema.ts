@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { idSchema, nameText, versionSchema } from './common.schema';
+import { idSchema, listQuerySchema, nameText, versionSchema } from './common.schema';
 import { areaGeometrySchema, lineStringGeometrySchema, multiPolygonGeometrySchema } from './geojson.schema';
 
 export const zonePropsSchema = z.object({
@@ -21,7 +21,12 @@ export const zoneFeatureSchema = z.object({
 });
 export type ZoneFeature = z.infer<typeof zoneFeatureSchema>;
 
-export const overlapSchema = z.object({ aId: idSchema, bId: idSchema, geometry: multiPolygonGeometrySchema, areaM2: z.number() });
+export const overlapSchema = z.object({
+  aId: idSchema,
+  bId: idSchema,
+  geometry: multiPolygonGeometrySchema,
+  areaM2: z.number(),
+});
 
 export const zoneMapSchema = z.object({
   id: idSchema,
@@ -49,24 +54,33 @@ export const zoneMapSchema = z.object({
 });
 export type ZoneMap = z.infer<typeof zoneMapSchema>;
 
-export const zoneMapSummarySchema = zoneMapSchema.pick({
-  id: true,
-  fieldId: true,
-  fieldName: true,
-  seasonId: true,
-  seasonLabel: true,
-  growerId: true,
-  name: true,
-  versionNo: true,
-  source: true,
-  version: true,
-  archivedAt: true,
-  updatedAt: true,
-}).extend({ zoneCount: z.number() });
+export const zoneMapSummarySchema = zoneMapSchema
+  .pick({
+    id: true,
+    fieldId: true,
+    fieldName: true,
+    seasonId: true,
+    seasonLabel: true,
+    growerId: true,
+    name: true,
+    versionNo: true,
+    source: true,
+    version: true,
+    archivedAt: true,
+    updatedAt: true,
+  })
+  .extend({ zoneCount: z.number() });
 export const zoneMapListSchema = z.object({ items: z.array(zoneMapSummarySchema) });
-export const zoneMapListQuerySchema = z.object({ fieldId: idSchema.optional(), seasonId: idSchema.optional() });
+export const zoneMapListQuerySchema = listQuerySchema.extend({
+  fieldId: idSchema.optional(),
+  seasonId: idSchema.optional(),
+});
 
-export const createZoneMapSchema = z.object({ fieldId: idSchema, seasonId: idSchema, name: nameText('Name') });
+export const createZoneMapSchema = z.object({
+  fieldId: idSchema,
+  seasonId: idSchema,
+  name: nameText('Name'),
+});
 
 export const zoneMapFromImportSchema = createZoneMapSchema.extend({
   importId: idSchema,
@@ -96,20 +110,33 @@ export const zonesFromPointsSchema = createZoneMapSchema.extend({
 });
 
 /** The preview takes the same choices; the name is only needed to save. */
-export const zonesFromPointsPreviewRequestSchema = zonesFromPointsSchema.extend({ name: z.string().optional() });
+export const zonesFromPointsPreviewRequestSchema = zonesFromPointsSchema.extend({
+  name: z.string().optional(),
+});
 
 export const zonesFromPointsPreviewSchema = z.object({
   breaks: z.array(z.number()),
   histogram: z.array(z.object({ from: z.number(), to: z.number(), count: z.number() })),
   zones: z.array(
-    z.object({ classIndex: z.number(), geometry: multiPolygonGeometrySchema, meanValue: z.number(), areaM2: z.number() }),
+    z.object({
+      classIndex: z.number(),
+      geometry: multiPolygonGeometrySchema,
+      meanValue: z.number(),
+      areaM2: z.number(),
+    }),
   ),
 });
 
 const edit = { version: versionSchema };
 const classValue = z.number().int().min(0).max(254).nullable();
 const productivityIndex = z.number().min(0).max(10).nullable();
-export const addZoneSchema = z.object({ ...edit, name: nameText('Zone name', 60), geometry: areaGeometrySchema, classValue, productivityIndex });
+export const addZoneSchema = z.object({
+  ...edit,
+  name: nameText('Zone name', 60),
+  geometry: areaGeometrySchema,
+  classValue,
+  productivityIndex,
+});
 export const updateZoneSchema = z.object({
   ...edit,
   name: nameText('Zone name', 60),

@@ -53,6 +53,8 @@ function routesFor(map: ZoneMap) {
     },
     write: {
       'POST /:id/new-version': (c: Caller) => c.post(`/api/zone-maps/${map.id}/new-version`, {}),
+      'POST /:id/archive': (c: Caller) => c.post(`/api/zone-maps/${map.id}/archive`),
+      'POST /:id/restore': (c: Caller) => c.post(`/api/zone-maps/${map.id}/restore`),
       'POST /:id/zones': (c: Caller) =>
         c.post(`/api/zone-maps/${map.id}/zones`, {
           version: v,

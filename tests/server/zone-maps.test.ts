@@ -139,6 +139,29 @@ describe('zone map life cycle', () => {
   });
 });
 
+describe('archiving', () => {
+  it('hides an archived map from the default list, refuses edits to it (409), and restores it', async () => {
+    let map = await createMap(agro, w, 'Archive me');
+    const listed = async (q: string) =>
+      zoneMapListSchema
+        .parse((await agro.get(`/api/zone-maps?fieldId=${w.a.field.id}${q}`)).body)
+        .items.map((i) => i.id);
+    map = expectMap(await agro.post(`/api/zone-maps/${map.id}/archive`));
+    expect(map.archivedAt).not.toBeNull();
+    expect(await listed('')).not.toContain(map.id);
+    expect(await listed('&archived=only')).toContain(map.id);
+    const edit = await agro.post(`/api/zone-maps/${map.id}/fill-gaps`, { version: map.version });
+    expect(edit.status).toBe(409);
+    expect(edit.body.error.code).toBe('conflict');
+    map = expectMap(await agro.post(`/api/zone-maps/${map.id}/restore`));
+    expect(map.archivedAt).toBeNull();
+    expect(await listed('')).toContain(map.id);
+    expect((await agro.post(`/api/zone-maps/${map.id}/fill-gaps`, { version: map.version })).status).toBe(
+      200,
+    );
+  });
+});
+
 describe('edits', () => {
   it('adds a zone clipped to the boundary; the overlap is reported until resolved; fill-gaps closes the sum', async () => {
     let map = await createMap(agro, w, 'Clip and overlap');

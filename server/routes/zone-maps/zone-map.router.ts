@@ -94,6 +94,20 @@ export function zoneMapRouter() {
   );
 
   router.post(
+    '/:id/archive',
+    write,
+    handle({ params: idParamsSchema }, ({ req, params }) =>
+      maps.setZoneMapArchived(actorOf(req), params.id, true),
+    ),
+  );
+  router.post(
+    '/:id/restore',
+    write,
+    handle({ params: idParamsSchema }, ({ req, params }) =>
+      maps.setZoneMapArchived(actorOf(req), params.id, false),
+    ),
+  );
+  router.post(
     '/:id/zones',
     write,
     handle({ params: idParamsSchema, body: addZoneSchema }, ({ req, params, body }) =>

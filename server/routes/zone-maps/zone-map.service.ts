@@ -3,7 +3,7 @@ import type { z } from 'zod';
 import type { MultiPolygon } from 'geojson';
 import { CropSeason, Field, Grower } from '../../db/associations';
 import { ZoneMap } from '../../db/models/zone-map.model';
-import { assertFound, assertVersion, inScope, iso, scopedWhere } from '../../lib/scope';
+import { archivedWhere, assertFound, assertVersion, inScope, iso, scopedWhere } from '../../lib/scope';
 import { stripCrs } from '../../lib/geometry';
 import { ConflictError, DomainError, NotFoundError, ValidationError } from '../../errors';
 import type { Actor } from '../../types';
@@ -107,7 +107,7 @@ export async function getZoneMap(actor: Actor, id: string): Promise<ZoneMapDto> 
 export async function listZoneMaps(actor: Actor, q: z.output<typeof zoneMapListQuerySchema>) {
   const rows = await ZoneMap.findAll({
     where: scopedWhere(actor, {
-      archivedAt: null,
+      ...archivedWhere(q.archived),
       ...(q.fieldId ? { fieldId: q.fieldId } : {}),
       ...(q.seasonId ? { cropSeasonId: q.seasonId } : {}),
     }),
@@ -267,6 +267,9 @@ async function edit(actor: Actor, id: string, version: number, fn: (ctx: EditCon
     assertFound(locked, 'Zone map');
     const map = await findZoneMap(actor, id, t);
     assertVersion(map.version, version);
+    if (map.archivedAt) {
+      throw new ConflictError('This zone map is archived: restore it before editing its zones');
+    }
     await fn({ t, map, zones: await zoneRowsOf(map.id, t), boundary: boundaryOf(map) });
     await ZoneMap.sequelize!.query(
       'UPDATE zone_maps SET version = version + 1, updated_at = now() WHERE id = :id',
@@ -445,4 +448,17 @@ export async function fillGapsOf(
 
 export function fillGaps(actor: Actor, id: string, version: number) {
   return edit(actor, id, version, ({ t, map, zones, boundary }) => fillGapsOf(t, map, zones, boundary));
+}
+
+/** Archives or restores a zone map (its zones stay as they are); raises its version. */
+export async function setZoneMapArchived(actor: Actor, id: string, archived: boolean) {
+  await ZoneMap.sequelize!.transaction(async (t) => {
+    const map = assertFound(
+      await ZoneMap.findOne({ where: scopedWhere(actor, { id }), transaction: t, lock: t.LOCK.UPDATE }),
+      'Zone map',
+    );
+    map.archivedAt = archived ? new Date() : null;
+    await map.save({ transaction: t });
+  });
+  return getZoneMap(actor, id);
 }
