@@ -10,6 +10,14 @@ describe('normaliseFeatures golden fixtures (fixtures/geo/normalise)', () => {
   goldenCases('normalise', (input) => normaliseFeatures(input));
 });
 
+/** A closed triangle ring in plain numbers. */
+const TRIANGLE = [
+  [0, 0],
+  [1, 0],
+  [1, 1],
+  [0, 0],
+];
+
 describe('normaliseFeatures', () => {
   it('winds every exterior counter-clockwise and every hole clockwise (RFC 7946 §3.1.6), whatever came in', () => {
     const cw = [
@@ -47,12 +55,7 @@ describe('normaliseFeatures', () => {
           geometry: {
             type: 'Polygon',
             coordinates: [
-              [
-                [0, 0],
-                [1, 0],
-                [1, 1],
-                [0, 0],
-              ],
+              TRIANGLE,
               [
                 [0.2, 0.2],
                 [0.3, 'x'],
@@ -91,14 +94,7 @@ describe('normaliseFeatures', () => {
   it('refuses GeometryCollections nested too deeply', () => {
     let g: object = {
       type: 'Polygon',
-      coordinates: [
-        [
-          [0, 0],
-          [1, 0],
-          [1, 1],
-          [0, 0],
-        ],
-      ],
+      coordinates: [TRIANGLE],
     };
     for (let i = 0; i < 20; i++) g = { type: 'GeometryCollection', geometries: [g] };
     expect(() => normaliseFeatures(g)).toThrow(GeoInputError);
