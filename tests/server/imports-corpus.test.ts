@@ -27,6 +27,13 @@ const post = (geojson: unknown, purpose = 'zones') =>
     typeof geojson === 'string' ? geojson : JSON.stringify(geojson),
   );
 
+/** A one-polygon FeatureCollection with a legacy `crs` member naming `name`. */
+const namedCrs = (name: string, ring: number[][]) => ({
+  type: 'FeatureCollection',
+  crs: { type: 'name', properties: { name } },
+  features: [{ type: 'Feature', properties: {}, geometry: polygon(ring) }],
+});
+
 async function importOk(geojson: unknown): Promise<ImportPreview> {
   const res = await post(geojson);
   expect(res.status, JSON.stringify(res.body).slice(0, 500)).toBe(201);
@@ -145,11 +152,7 @@ describe('the bad-input corpus (RELIABILITY.md), each ending in a clear answer',
       [448000, 4651000],
       [448000, 4650000],
     ];
-    const p = await importOk({
-      type: 'FeatureCollection',
-      crs: { type: 'name', properties: { name: 'EPSG:4326' } },
-      features: [{ type: 'Feature', properties: {}, geometry: polygon(utm) }],
-    });
+    const p = await importOk(namedCrs('EPSG:4326', utm));
     expect(p.coordinates.kind).toBe('projected');
     expect(p.features).toEqual([]);
     expect(p.warnings.length).toBeGreaterThan(0);
@@ -162,11 +165,7 @@ describe('the bad-input corpus (RELIABILITY.md), each ending in a clear answer',
       [653000, 6863000],
       [652000, 6862000],
     ];
-    const p = await importOk({
-      type: 'FeatureCollection',
-      crs: { type: 'name', properties: { name: 'urn:ogc:def:crs:EPSG::2154' } },
-      features: [{ type: 'Feature', properties: {}, geometry: polygon(lambert) }],
-    });
+    const p = await importOk(namedCrs('urn:ogc:def:crs:EPSG::2154', lambert));
     expect(p.coordinates.kind).toBe('projected');
     expect(p.warnings.some((m) => m.includes('EPSG:2154'))).toBe(true);
   });
