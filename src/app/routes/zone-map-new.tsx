@@ -49,7 +49,9 @@ function NewZoneMap({ field, initialSeasonId }: { field: Field; initialSeasonId:
   const how = (HOW.find((h) => h.value === search.get('how'))?.value ?? 'default') as How;
   const seasons = useSeasons({ fieldId: field.id });
   const options = (seasons.data ?? []).map((s) => ({ id: s.id, label: `${s.year} ${CROP_LABELS[s.crop].toLowerCase()}` }));
-  const [basics, setBasics] = useState<ZoneMapBasics>({ seasonId: initialSeasonId, name: 'Management zones' });
+  const [chosenBasics, setBasics] = useState<ZoneMapBasics>({ seasonId: initialSeasonId, name: 'Management zones' });
+  // A field with one crop season: that one, unless the user chose otherwise.
+  const basics = { ...chosenBasics, seasonId: chosenBasics.seasonId || (options.length === 1 ? options[0].id : '') };
   const [preview, setPreview] = useState<ImportPreview | null>(null);
   const [chosen, setChosen] = useState<number[]>([]);
   const created = (m: ZoneMap) => navigate(`/zone-maps/${m.id}`);
