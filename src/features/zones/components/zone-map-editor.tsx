@@ -253,6 +253,7 @@ export function ZoneMapEditor({ map, system, canEdit }: { map: ZoneMap; system: 
               entries={[
                 ...colouring.legend,
                 ...(lines.length ? [{ key: 'overlap', colour: INK.danger, hatch: true, label: 'Overlap' }] : []),
+                ...(map.analysis.gapAreaM2 >= SLIVER_M2 ? [{ key: 'gap', colour: INK.line, label: 'In no zone' }] : []),
                 { key: 'boundary', colour: INK.ink, outline: 'ink' as const, label: 'Field boundary' },
               ]}
             />
