@@ -7,6 +7,7 @@ import {
   ValidationError as SequelizeValidationError,
 } from 'sequelize';
 import { DomainError } from '../errors';
+import { GeoInputError } from '../../shared/geo/geo-input-error';
 
 const STATUS: Record<string, number> = {
   not_found: 404,
@@ -20,6 +21,11 @@ const STATUS: Record<string, number> = {
   stale: 409,
   validation_failed: 400,
   invalid_geometry: 422,
+  unreadable_file: 422,
+  coordinates_unknown: 422,
+  unknown_crs: 422,
+  geo_input: 422,
+  too_large: 413,
   gone: 410,
 };
 
@@ -45,6 +51,11 @@ export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
         details,
       },
     });
+    return;
+  }
+  if (err instanceof GeoInputError) {
+    // Pure geometry code refuses input it cannot work with; the message names the place.
+    res.status(422).json({ error: { code: 'invalid_geometry', message: err.message } });
     return;
   }
   if (err instanceof DomainError) {
