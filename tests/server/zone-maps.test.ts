@@ -212,6 +212,12 @@ describe('edits', () => {
     expect(rel(areas[0], whole.properties.areaM2 * 0.4)).toBeLessThan(1e-3);
     expect(rel(areas[0] + areas[1], whole.properties.areaM2)).toBeLessThan(AREA_TOLERANCE);
     expect(map.zones.features.map((f) => f.properties.id)).toContain(whole.properties.id);
+    // The default zone split in two: the part that stays is still the default, the cut-off part is not.
+    expect(whole.properties.isDefault).toBe(true);
+    expect(map.zones.features.map((f) => [f.properties.id === whole.properties.id, f.properties.isDefault]).sort()).toEqual([
+      [false, false],
+      [true, true],
+    ]);
 
     const miss = await agro.post(`/api/zone-maps/${map.id}/split`, {
       version: map.version,

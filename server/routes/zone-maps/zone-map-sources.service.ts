@@ -1,3 +1,4 @@
+import { roundTo } from '../../../shared/units';
 import type { z } from 'zod';
 import type { MultiPolygon } from 'geojson';
 import { Field } from '../../db/associations';
@@ -157,8 +158,8 @@ export async function previewFromPoints(
 export async function createFromPoints(actor: Actor, input: z.output<typeof zonesFromPointsSchema>) {
   const result = await draft(actor, input);
   const sourceNote =
-    `${input.attribute}: ${CLASS_METHOD_LABELS[input.method]}, ${input.classes} classes, ${input.cellSizeM} m cells, ` +
-    `inverse distance power ${input.power}, fragments under ${input.minAreaM2} m² dissolved`;
+    `${input.attribute}: ${CLASS_METHOD_LABELS[input.method]}, ${input.classes} classes, ${roundTo(input.cellSizeM, 1)} m cells, ` +
+    `inverse distance power ${roundTo(input.power, 2)}, fragments under ${roundTo(input.minAreaM2 / 10_000, 3)} ha dissolved`;
   return createZoneMapWith(actor, { ...input, source: 'from-data', sourceNote }, () =>
     result.zones.map((z) => ({
       name: `Class ${z.classIndex + 1}`,

@@ -385,7 +385,8 @@ export function split(actor: Actor, id: string, input: z.output<typeof splitZone
     await insertZone(
       t,
       map,
-      { ...zone, name: partName(zone.name, 2), geometry: second, sortOrder: undefined },
+      // The cut-off part is a zone the user made: only the part that stays keeps a default flag.
+      { ...zone, name: partName(zone.name, 2), isDefault: false, geometry: second, sortOrder: undefined },
       `The second part of "${zone.name}"`,
     );
   });
