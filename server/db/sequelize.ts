@@ -14,7 +14,7 @@ export function createSequelize(url: string, { logging = false }: { logging?: bo
     dialect: 'postgres',
     dialectModule: pg,
     logging: logging ? console.log : false,
-    pool: { max: 10, min: 0, idle: 10_000, acquire: 30_000 },
+    pool: { max: 20, min: 2, idle: 10_000, acquire: 30_000 },
     define: { underscored: true },
     hooks: {
       afterConnect(connection: unknown) {
