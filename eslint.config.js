@@ -5,7 +5,7 @@ import reactHooks from 'eslint-plugin-react-hooks';
 import globals from 'globals';
 
 export default tseslint.config(
-  { ignores: ['dist/**', 'node_modules/**', '.data/**', 'fixtures/**', 'coverage/**'] },
+  { ignores: ['dist/**', 'node_modules/**', '.data/**', '.tmp/**', 'fixtures/**', 'coverage/**'] },
   js.configs.recommended,
   ...tseslint.configs.recommended,
   {

@@ -49,8 +49,12 @@ try {
   await autocannon({ url: target, connections: 50, duration: 2, headers: { cookie } }); // warm-up
   const r = await autocannon({ url: target, connections: 50, duration: 10, headers: { cookie } });
   const errors = r.errors + r.timeouts + (r.non2xx ?? 0);
-  say(`  ${r.requests.average.toFixed(0)} req/s, p50 ${r.latency.p50} ms, p99 ${r.latency.p99} ms, errors ${errors}`);
-  say(`  ratio to target: ${(r.requests.average / 1000).toFixed(2)}× throughput, p99 ${(r.latency.p99 / 50).toFixed(2)}× of the limit`);
+  say(
+    `  ${r.requests.average.toFixed(0)} req/s, p50 ${r.latency.p50} ms, p99 ${r.latency.p99} ms, errors ${errors}`,
+  );
+  say(
+    `  ratio to target: ${(r.requests.average / 1000).toFixed(2)}× throughput, p99 ${(r.latency.p99 / 50).toFixed(2)}× of the limit`,
+  );
 } catch (err) {
   console.error(`[bench] failed to run: ${err.stack ?? err.message}`);
   failed = true;

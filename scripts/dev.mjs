@@ -7,7 +7,11 @@ import { DATA, ROOT, demoUsers, ensureNodeModules, persistentSecret, runTsSync, 
 
 const appPort = Number(process.env.SOWRIGHT_PORT ?? 4280);
 ensureNodeModules();
-const db = await startCluster({ baseDir: DATA, port: Number(process.env.SOWRIGHT_DB_PORT ?? 54329), dbName: 'sowright' });
+const db = await startCluster({
+  baseDir: DATA,
+  port: Number(process.env.SOWRIGHT_DB_PORT ?? 54329),
+  dbName: 'sowright',
+});
 const env = {
   ...process.env,
   NODE_ENV: 'development',
@@ -18,8 +22,16 @@ const env = {
 };
 runTsSync('server/db/cli.ts', ['seed'], env);
 
-const api = spawn(process.execPath, ['--import', 'tsx', '--watch', path.join(ROOT, 'server/index.ts')], { cwd: ROOT, env, stdio: 'inherit' });
-const vite = spawn(process.execPath, [path.join(ROOT, 'node_modules/vite/bin/vite.js')], { cwd: ROOT, env, stdio: 'inherit' });
+const api = spawn(process.execPath, ['--import', 'tsx', '--watch', path.join(ROOT, 'server/index.ts')], {
+  cwd: ROOT,
+  env,
+  stdio: 'inherit',
+});
+const vite = spawn(process.execPath, [path.join(ROOT, 'node_modules/vite/bin/vite.js')], {
+  cwd: ROOT,
+  env,
+  stdio: 'inherit',
+});
 say('API on http://127.0.0.1:' + appPort + ', client with hot reload on http://127.0.0.1:5173');
 for (const u of demoUsers()) say(`  ${u.role.padEnd(11)} ${u.email.padEnd(30)} ${u.password}`);
 

@@ -50,7 +50,9 @@ function runPg(bin, args, opts = {}) {
   const cmdArgs = isRoot ? ['-u', 'postgres', '--', full, ...args] : args;
   const res = spawnSync(cmd, cmdArgs, { encoding: 'utf8', ...opts });
   if (res.status !== 0 && !opts.allowFail) {
-    throw new Error(`${bin} ${args.join(' ')} failed (${res.status}):\n${res.stdout ?? ''}${res.stderr ?? ''}`);
+    throw new Error(
+      `${bin} ${args.join(' ')} failed (${res.status}):\n${res.stdout ?? ''}${res.stderr ?? ''}`,
+    );
   }
   return res;
 }
@@ -105,8 +107,10 @@ export async function startCluster({ baseDir, port, dbName }) {
     giveToPostgres(dataDir);
     giveToPostgres(pwFile);
     runPg('initdb', [
-      '-D', dataDir,
-      '-U', 'sowright',
+      '-D',
+      dataDir,
+      '-U',
+      'sowright',
       `--pwfile=${pwFile}`,
       '--auth-local=scram-sha-256',
       '--auth-host=scram-sha-256',

@@ -45,7 +45,11 @@ export function persistentSecret(name) {
 
 /** Runs a TypeScript entry point with tsx; resolves with its exit code. */
 export function runTs(entry, args = [], { env = process.env, stdio = 'inherit' } = {}) {
-  return spawn(process.execPath, ['--import', 'tsx', path.join(ROOT, entry), ...args], { cwd: ROOT, env, stdio });
+  return spawn(process.execPath, ['--import', 'tsx', path.join(ROOT, entry), ...args], {
+    cwd: ROOT,
+    env,
+    stdio,
+  });
 }
 
 export function runTsSync(entry, args, env) {
@@ -80,10 +84,14 @@ export function ensureClientBuild({ force = false } = {}) {
   if (!force && existsSync(dist) && statSync(dist).mtimeMs > Math.max(...sources)) return false;
   say('building the client…');
   const t = Date.now();
-  const res = spawnSync(process.execPath, [path.join(ROOT, 'node_modules', 'vite', 'bin', 'vite.js'), 'build', '--logLevel', 'warn'], {
-    cwd: ROOT,
-    stdio: 'inherit',
-  });
+  const res = spawnSync(
+    process.execPath,
+    [path.join(ROOT, 'node_modules', 'vite', 'bin', 'vite.js'), 'build', '--logLevel', 'warn'],
+    {
+      cwd: ROOT,
+      stdio: 'inherit',
+    },
+  );
   if (res.status !== 0) throw new Error('vite build failed');
   say(`client built in ${((Date.now() - t) / 1000).toFixed(1)} s`);
   return true;

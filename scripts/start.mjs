@@ -1,7 +1,17 @@
 // `npm start`: database, migrations, demo, client build and server, all on 127.0.0.1. Ctrl-C stops it all.
 import path from 'node:path';
 import { startCluster, stopCluster } from './pg.mjs';
-import { DATA, ROOT, demoUsers, ensureClientBuild, ensureNodeModules, persistentSecret, runTs, runTsSync, say } from './setup.mjs';
+import {
+  DATA,
+  ROOT,
+  demoUsers,
+  ensureClientBuild,
+  ensureNodeModules,
+  persistentSecret,
+  runTs,
+  runTsSync,
+  say,
+} from './setup.mjs';
 
 const t0 = Date.now();
 const appPort = Number(process.env.SOWRIGHT_PORT ?? 4280);

@@ -17,9 +17,15 @@ const wantsE2e = onlyE2e || !vitestArgs.some((a) => a.startsWith('--project')) |
 const t0 = Date.now();
 ensureNodeModules();
 if (wantsE2e) {
-  ensureDebianPackages(['chromium'], { check: () => existsSync('/usr/bin/chromium'), why: 'Chromium for the browser tests' });
+  ensureDebianPackages(['chromium'], {
+    check: () => existsSync('/usr/bin/chromium'),
+    why: 'Chromium for the browser tests',
+  });
 }
-ensureDebianPackages(['gdal-bin'], { check: () => existsSync('/usr/bin/ogrinfo'), why: "GDAL's ogrinfo, an independent reader for export tests" });
+ensureDebianPackages(['gdal-bin'], {
+  check: () => existsSync('/usr/bin/ogrinfo'),
+  why: "GDAL's ogrinfo, an independent reader for export tests",
+});
 
 const baseDir = mkdtempSync(path.join(os.tmpdir(), 'sowright-test-'));
 let db = null;
@@ -47,11 +53,15 @@ try {
   if (wantsE2e) ensureClientBuild();
   const runArgs = onlyE2e ? ['run', '--project', 'e2e', ...vitestArgs] : ['run', ...vitestArgs];
   code = await new Promise((resolve) => {
-    const child = spawn(process.execPath, [path.join(ROOT, 'node_modules', 'vitest', 'vitest.mjs'), ...runArgs], {
-      cwd: ROOT,
-      env,
-      stdio: 'inherit',
-    });
+    const child = spawn(
+      process.execPath,
+      [path.join(ROOT, 'node_modules', 'vitest', 'vitest.mjs'), ...runArgs],
+      {
+        cwd: ROOT,
+        env,
+        stdio: 'inherit',
+      },
+    );
     child.on('exit', (c) => resolve(c ?? 1));
   });
 } catch (err) {

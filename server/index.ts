@@ -42,7 +42,8 @@ async function main() {
   });
   const { port } = server.address() as AddressInfo;
   process.stdout.write(`[api] Sowright ${APP_VERSION} listening on http://${env.SOWRIGHT_HOST}:${port}\n`);
-  if (mailbox) process.stdout.write(`[mail] catching e-mail on smtp://${env.SOWRIGHT_SMTP_HOST}:${mailbox.port}\n`);
+  if (mailbox)
+    process.stdout.write(`[mail] catching e-mail on smtp://${env.SOWRIGHT_SMTP_HOST}:${mailbox.port}\n`);
 
   let stopping = false;
   const stop = async (signal: string) => {

@@ -71,11 +71,16 @@ export const lengthUnitLabel = (system: UnitSystem) => (system === 'imperial' ? 
 export const speedUnitLabel = (system: UnitSystem) => (system === 'imperial' ? 'mph' : 'km/h');
 export const areaUnitLabel = (system: UnitSystem) => (system === 'imperial' ? 'ac' : 'ha');
 
-export const rowSpacingToDisplay = (m: number, system: UnitSystem) => (system === 'imperial' ? mToIn(m) : mToCm(m));
-export const rowSpacingFromDisplay = (v: number, system: UnitSystem) => (system === 'imperial' ? inToM(v) : cmToM(v));
-export const speedToDisplay = (mps: number, system: UnitSystem) => (system === 'imperial' ? mpsToMph(mps) : mpsToKmh(mps));
-export const speedFromDisplay = (v: number, system: UnitSystem) => (system === 'imperial' ? mphToMps(v) : kmhToMps(v));
-export const areaToDisplay = (m2: number, system: UnitSystem) => (system === 'imperial' ? m2ToAc(m2) : m2ToHa(m2));
+export const rowSpacingToDisplay = (m: number, system: UnitSystem) =>
+  system === 'imperial' ? mToIn(m) : mToCm(m);
+export const rowSpacingFromDisplay = (v: number, system: UnitSystem) =>
+  system === 'imperial' ? inToM(v) : cmToM(v);
+export const speedToDisplay = (mps: number, system: UnitSystem) =>
+  system === 'imperial' ? mpsToMph(mps) : mpsToKmh(mps);
+export const speedFromDisplay = (v: number, system: UnitSystem) =>
+  system === 'imperial' ? mphToMps(v) : kmhToMps(v);
+export const areaToDisplay = (m2: number, system: UnitSystem) =>
+  system === 'imperial' ? m2ToAc(m2) : m2ToHa(m2);
 
 /** Rounds to a number of decimals without the float noise of toFixed on display values. */
 export const roundTo = (value: number, decimals: number) => {

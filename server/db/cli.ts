@@ -24,7 +24,11 @@ async function main() {
     if (done.length) process.stdout.write(`[db] migrated: ${done.map((m) => m.name).join(', ')}\n`);
     if (command === 'seed' || command === 'reset') {
       const seeded = await seeder.up();
-      process.stdout.write(seeded.length ? `[db] seeded: ${seeded.map((s) => s.name).join(', ')}\n` : '[db] demo already seeded\n');
+      process.stdout.write(
+        seeded.length
+          ? `[db] seeded: ${seeded.map((s) => s.name).join(', ')}\n`
+          : '[db] demo already seeded\n',
+      );
     }
   } finally {
     await sequelize.close();

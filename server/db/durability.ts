@@ -9,5 +9,8 @@ export async function assertDurable(sequelize: Sequelize) {
     });
     if (row?.v !== 'on') bad.push(`${setting}=${row?.v}`);
   }
-  if (bad.length) throw new Error(`PostgreSQL must run with ${bad.map((b) => b.split('=')[0]).join(', ')} on (now ${bad.join(', ')})`);
+  if (bad.length)
+    throw new Error(
+      `PostgreSQL must run with ${bad.map((b) => b.split('=')[0]).join(', ')} on (now ${bad.join(', ')})`,
+    );
 }

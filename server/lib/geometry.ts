@@ -14,7 +14,9 @@ export async function assertValidBoundary(sequelize: Sequelize, geom: MultiPolyg
   );
   if (!row) throw new DomainError('invalid_geometry', 'The boundary could not be read');
   if (row.empty) {
-    throw new DomainError('invalid_geometry', 'The boundary is empty', [{ path: [path], message: 'The boundary is empty' }]);
+    throw new DomainError('invalid_geometry', 'The boundary is empty', [
+      { path: [path], message: 'The boundary is empty' },
+    ]);
   }
   if (!row.valid) {
     const message = `The boundary is not a valid polygon: ${row.reason}`;

@@ -7,7 +7,11 @@ import type { Actor } from '../types';
  * conditions. The scope is a clause of its own: a condition from the request (an `:id`, `?growerId=`) can
  * only narrow it, never widen it by replacing a key of the same name in a merged object.
  */
-export function scopedWhere(actor: Actor, conditions: WhereOptions = {}, growerColumn = 'growerId'): WhereOptions {
+export function scopedWhere(
+  actor: Actor,
+  conditions: WhereOptions = {},
+  growerColumn = 'growerId',
+): WhereOptions {
   const scope: Record<string, unknown> = { workspaceId: actor.workspaceId };
   if (actor.growerScope) scope[growerColumn] = { [Op.in]: actor.growerScope };
   return { [Op.and]: [scope, conditions] };
@@ -32,7 +36,10 @@ export function assertFound<T>(row: T | null | undefined, what: string): T {
 /** Optimistic locking: the client sends the version it read; a different one means someone else saved. */
 export function assertVersion(current: number, sent: number) {
   if (current !== sent) {
-    throw new ConflictError('Someone else changed this record since you opened it: reload it and try again', 'stale');
+    throw new ConflictError(
+      'Someone else changed this record since you opened it: reload it and try again',
+      'stale',
+    );
   }
 }
 

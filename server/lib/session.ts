@@ -19,7 +19,10 @@ export class SessionKeys {
     this.key = createSecretKey(Buffer.from(secret, 'utf8'));
   }
 
-  sign(claims: { sub: string; ws: string; tv: number; at: number }, nowSeconds = Math.floor(Date.now() / 1000)) {
+  sign(
+    claims: { sub: string; ws: string; tv: number; at: number },
+    nowSeconds = Math.floor(Date.now() / 1000),
+  ) {
     const exp = Math.min(nowSeconds + IDLE_SECONDS, claims.at + ABSOLUTE_SECONDS);
     return jwt.sign({ ws: claims.ws, tv: claims.tv, at: claims.at, iat: nowSeconds, exp }, this.key, {
       algorithm: 'HS256',
@@ -40,7 +43,12 @@ export class SessionKeys {
       if (typeof payload !== 'object' || payload === null) return null;
       const { sub, ws, tv, at, iat, exp } = payload as Record<string, unknown>;
       if (typeof exp !== 'number' || typeof iat !== 'number') return null;
-      if (typeof sub !== 'string' || typeof ws !== 'string' || typeof tv !== 'number' || typeof at !== 'number') {
+      if (
+        typeof sub !== 'string' ||
+        typeof ws !== 'string' ||
+        typeof tv !== 'number' ||
+        typeof at !== 'number'
+      ) {
         return null;
       }
       if (Date.now() / 1000 > at + ABSOLUTE_SECONDS) return null;

@@ -12,7 +12,12 @@ export function cookieSettings(secure: boolean): CookieSettings {
   return { name: secure ? '__Host-sowright' : 'sowright_session', secure };
 }
 
-export function setSessionCookie(res: Response, cookie: CookieSettings, token: string, claims: { exp: number }) {
+export function setSessionCookie(
+  res: Response,
+  cookie: CookieSettings,
+  token: string,
+  claims: { exp: number },
+) {
   res.cookie(cookie.name, token, {
     httpOnly: true,
     secure: cookie.secure,
@@ -62,7 +67,12 @@ export function authenticate(keys: SessionKeys, cookie: CookieSettings): Request
         return next();
       }
       const row = await loadSessionUser(claims.sub);
-      if (!row || row.workspace_id !== claims.ws || row.token_version !== claims.tv || row.status !== 'active') {
+      if (
+        !row ||
+        row.workspace_id !== claims.ws ||
+        row.token_version !== claims.tv ||
+        row.status !== 'active'
+      ) {
         clearSessionCookie(res, cookie);
         return next();
       }
@@ -70,7 +80,14 @@ export function authenticate(keys: SessionKeys, cookie: CookieSettings): Request
         userId: row.id,
         workspaceId: row.workspace_id,
         role: row.role,
-        growerScope: row.role === 'farmer' ? (row.grower_id ? [row.grower_id] : []) : row.role === 'consultant' ? row.consultant_growers : null,
+        growerScope:
+          row.role === 'farmer'
+            ? row.grower_id
+              ? [row.grower_id]
+              : []
+            : row.role === 'consultant'
+              ? row.consultant_growers
+              : null,
       };
       refreshIfOld(res, keys, cookie, claims);
       next();

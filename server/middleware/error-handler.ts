@@ -42,12 +42,17 @@ const UNIQUE_MESSAGES: Record<string, { path: string; message: string }> = {
 export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
   if (res.headersSent) return;
   if (err instanceof ZodError) {
-    const details = err.issues.map((i) => ({ path: i.path.map((p) => (typeof p === 'symbol' ? String(p) : p)), message: i.message }));
+    const details = err.issues.map((i) => ({
+      path: i.path.map((p) => (typeof p === 'symbol' ? String(p) : p)),
+      message: i.message,
+    }));
     const first = details[0];
     res.status(400).json({
       error: {
         code: 'validation_failed',
-        message: first ? `${first.path.join('.') || 'request'}: ${first.message}` : 'The request is not valid',
+        message: first
+          ? `${first.path.join('.') || 'request'}: ${first.message}`
+          : 'The request is not valid',
         details,
       },
     });
@@ -59,11 +64,17 @@ export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
     return;
   }
   if (err instanceof DomainError) {
-    res.status(STATUS[err.code] ?? 400).json({ error: { code: err.code, message: err.message, details: err.details } });
+    res
+      .status(STATUS[err.code] ?? 400)
+      .json({ error: { code: err.code, message: err.message, details: err.details } });
     return;
   }
   if (err instanceof OptimisticLockError) {
-    res.status(409).json({ error: { code: 'stale', message: 'Someone else changed this record: reload it and try again' } });
+    res
+      .status(409)
+      .json({
+        error: { code: 'stale', message: 'Someone else changed this record: reload it and try again' },
+      });
     return;
   }
   if (err instanceof UniqueConstraintError) {
@@ -96,5 +107,12 @@ export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
     return;
   }
   console.warn(`[api] ${req.method} ${req.originalUrl} failed:`, err);
-  res.status(500).json({ error: { code: 'internal', message: 'Something went wrong on our side. Try again; if it keeps happening, tell your admin' } });
+  res
+    .status(500)
+    .json({
+      error: {
+        code: 'internal',
+        message: 'Something went wrong on our side. Try again; if it keeps happening, tell your admin',
+      },
+    });
 };

@@ -4,7 +4,8 @@ import type { Actor } from '../types';
 import { UnauthenticatedError } from '../errors';
 
 type Schemas = { body?: z.ZodType; query?: z.ZodType; params?: z.ZodType };
-type Out<S, K extends keyof Schemas> = S extends Record<K, infer T extends z.ZodType> ? z.output<T> : undefined;
+type Out<S, K extends keyof Schemas> =
+  S extends Record<K, infer T extends z.ZodType> ? z.output<T> : undefined;
 
 export type HandlerContext<S extends Schemas> = {
   body: Out<S, 'body'>;

@@ -26,8 +26,14 @@ export function registerRouter<LQ extends z.ZodType, C extends z.ZodType, U exte
   const router = Router();
   const write = requireRole(...s.writeRoles);
   router.use(requireSignIn);
-  router.get('/', handle({ query: s.listQuery }, ({ req, query }) => s.list(actorOf(req), query as z.output<LQ>)));
-  router.get('/:id', handle({ params: idParamsSchema }, ({ req, params }) => s.get(actorOf(req), params.id)));
+  router.get(
+    '/',
+    handle({ query: s.listQuery }, ({ req, query }) => s.list(actorOf(req), query as z.output<LQ>)),
+  );
+  router.get(
+    '/:id',
+    handle({ params: idParamsSchema }, ({ req, params }) => s.get(actorOf(req), params.id)),
+  );
   router.post(
     '/',
     write,

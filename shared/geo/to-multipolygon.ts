@@ -6,7 +6,8 @@ export type MultiPolygonGeom = { type: 'MultiPolygon'; coordinates: PolygonCoord
  * positions only. The input is not mutated.
  */
 export function toMultiPolygon(
-  geom: { type: 'Polygon'; coordinates: number[][][] } | { type: 'MultiPolygon'; coordinates: number[][][][] },
+  geom:
+    { type: 'Polygon'; coordinates: number[][][] } | { type: 'MultiPolygon'; coordinates: number[][][][] },
 ): MultiPolygonGeom {
   const polys = geom.type === 'Polygon' ? [geom.coordinates] : geom.coordinates;
   return {

@@ -3,7 +3,8 @@
  * always the full physical count of row units (common practice; DOMAIN.md §4).
  */
 export function countSections(rowCount: number, rowsPerSection: number): number {
-  if (!Number.isInteger(rowCount) || rowCount < 1) throw new RangeError('rowCount must be a positive integer');
+  if (!Number.isInteger(rowCount) || rowCount < 1)
+    throw new RangeError('rowCount must be a positive integer');
   if (!Number.isInteger(rowsPerSection) || rowsPerSection < 1) {
     throw new RangeError('rowsPerSection must be a positive integer');
   }

@@ -1,6 +1,15 @@
 import { z } from 'zod';
 
-export const CROPS = ['corn', 'soybean', 'sorghum', 'sunflower', 'cotton', 'canola', 'dry-bean', 'sugar-beet'] as const;
+export const CROPS = [
+  'corn',
+  'soybean',
+  'sorghum',
+  'sunflower',
+  'cotton',
+  'canola',
+  'dry-bean',
+  'sugar-beet',
+] as const;
 export const cropSchema = z.enum(CROPS, { message: 'Choose a crop from the list' });
 export type Crop = z.infer<typeof cropSchema>;
 

@@ -45,4 +45,7 @@ export const fieldSchema = z.object({
 export type Field = z.infer<typeof fieldSchema>;
 export const fieldListSchema = z.object({ items: z.array(fieldSchema) });
 
-export const fieldListQuerySchema = listQuerySchema.extend({ growerId: idSchema.optional(), farmId: idSchema.optional() });
+export const fieldListQuerySchema = listQuerySchema.extend({
+  growerId: idSchema.optional(),
+  farmId: idSchema.optional(),
+});

@@ -1,7 +1,10 @@
 import { z } from 'zod';
 
 const position = z.array(z.number()).min(2).max(3);
-export const polygonGeometrySchema = z.object({ type: z.literal('Polygon'), coordinates: z.array(z.array(position)) });
+export const polygonGeometrySchema = z.object({
+  type: z.literal('Polygon'),
+  coordinates: z.array(z.array(position)),
+});
 export const multiPolygonGeometrySchema = z.object({
   type: z.literal('MultiPolygon'),
   coordinates: z.array(z.array(z.array(position))),

@@ -42,19 +42,27 @@ export const importPreviewSchema = z.object({
   layers: z.array(z.object({ name: z.string(), featureCount: z.number(), geometryType: z.string() })),
   coordinates: z.discriminatedUnion('kind', [
     z.object({ kind: z.literal('geographic'), source: z.string() }),
-    z.object({ kind: z.literal('projected'), bbox: z.array(z.number()), candidates: z.array(crsCandidateSchema) }),
+    z.object({
+      kind: z.literal('projected'),
+      bbox: z.array(z.number()),
+      candidates: z.array(crsCandidateSchema),
+    }),
   ]),
   /** Polygon features (boundary and zones purposes). Empty until the coordinate system is known. */
   features: z.array(previewFeatureSchema),
   /** Point layers: how many points, and which properties hold numbers (for zones from data). */
   pointCount: z.number().optional(),
-  numericProperties: z.array(z.object({ name: z.string(), min: z.number(), max: z.number(), count: z.number() })).optional(),
+  numericProperties: z
+    .array(z.object({ name: z.string(), min: z.number(), max: z.number(), count: z.number() }))
+    .optional(),
   /** Points as [lon, lat, value-of-first-numeric] samples, at most a few thousand, for the map preview. */
   warnings: z.array(z.string()),
 });
 export type ImportPreview = z.infer<typeof importPreviewSchema>;
 
-export const chooseCoordinatesSchema = z.object({ code: z.string().regex(/^EPSG:\d{4,6}$/, 'Use a code like EPSG:32615') });
+export const chooseCoordinatesSchema = z.object({
+  code: z.string().regex(/^EPSG:\d{4,6}$/, 'Use a code like EPSG:32615'),
+});
 
 export const setBoundarySchema = z.union([
   z.object({
@@ -64,7 +72,10 @@ export const setBoundarySchema = z.union([
     version: z.number().int().min(0),
   }),
   z.object({
-    geometry: z.union([multiPolygonGeometrySchema, z.object({ type: z.literal('Polygon'), coordinates: z.array(z.array(z.array(z.number()))) })]),
+    geometry: z.union([
+      multiPolygonGeometrySchema,
+      z.object({ type: z.literal('Polygon'), coordinates: z.array(z.array(z.array(z.number()))) }),
+    ]),
     repair: z.boolean().default(false),
     version: z.number().int().min(0),
   }),

@@ -4,7 +4,9 @@ import { cropSchema } from './crops';
 import { countSections, minRowsPerSection } from '../rates/count-sections';
 
 export const GROUND_SPEED_SOURCES = ['radar', 'wheel', 'gnss'] as const;
-export const groundSpeedSourceSchema = z.enum(GROUND_SPEED_SOURCES, { message: 'Choose a ground-speed source' });
+export const groundSpeedSourceSchema = z.enum(GROUND_SPEED_SOURCES, {
+  message: 'Choose a ground-speed source',
+});
 export const GROUND_SPEED_SOURCE_LABELS: Record<(typeof GROUND_SPEED_SOURCES)[number], string> = {
   radar: 'Radar on the planter',
   wheel: 'Tractor wheel sensor',
@@ -64,7 +66,11 @@ type PlanterShape = z.infer<typeof planterFields>;
 
 function checkPlanter(p: Omit<PlanterShape, 'growerId'>, ctx: z.RefinementCtx) {
   if (p.rowsPerSection > p.rowCount) {
-    ctx.addIssue({ code: 'custom', path: ['rowsPerSection'], message: 'Rows per section cannot exceed the rows' });
+    ctx.addIssue({
+      code: 'custom',
+      path: ['rowsPerSection'],
+      message: 'Rows per section cannot exceed the rows',
+    });
   } else {
     const sections = countSections(p.rowCount, p.rowsPerSection);
     if (sections > p.displaySectionLimit) {
@@ -78,19 +84,39 @@ function checkPlanter(p: Omit<PlanterShape, 'growerId'>, ctx: z.RefinementCtx) {
   }
   if (p.arrangement === 'split-row') {
     if (p.interplantRowCount == null) {
-      ctx.addIssue({ code: 'custom', path: ['interplantRowCount'], message: 'A split-row planter needs its interplant row count' });
+      ctx.addIssue({
+        code: 'custom',
+        path: ['interplantRowCount'],
+        message: 'A split-row planter needs its interplant row count',
+      });
     } else if (p.interplantRowCount >= p.rowCount) {
-      ctx.addIssue({ code: 'custom', path: ['interplantRowCount'], message: 'Interplant rows must be fewer than all rows' });
+      ctx.addIssue({
+        code: 'custom',
+        path: ['interplantRowCount'],
+        message: 'Interplant rows must be fewer than all rows',
+      });
     }
   }
   if (p.discRpmMin >= p.discRpmMax) {
-    ctx.addIssue({ code: 'custom', path: ['discRpmMax'], message: 'The highest disc speed must exceed the lowest' });
+    ctx.addIssue({
+      code: 'custom',
+      path: ['discRpmMax'],
+      message: 'The highest disc speed must exceed the lowest',
+    });
   }
   if (p.speedMinMps > p.speedPlannedMps) {
-    ctx.addIssue({ code: 'custom', path: ['speedPlannedMps'], message: 'The planned speed cannot be below the lowest speed' });
+    ctx.addIssue({
+      code: 'custom',
+      path: ['speedPlannedMps'],
+      message: 'The planned speed cannot be below the lowest speed',
+    });
   }
   if (p.speedPlannedMps > p.speedMaxMps) {
-    ctx.addIssue({ code: 'custom', path: ['speedMaxMps'], message: 'The highest speed cannot be below the planned speed' });
+    ctx.addIssue({
+      code: 'custom',
+      path: ['speedMaxMps'],
+      message: 'The highest speed cannot be below the planned speed',
+    });
   }
 }
 

@@ -20,7 +20,9 @@ export const seasonInputSchema = z.object({
 });
 export type SeasonInput = z.input<typeof seasonInputSchema>;
 
-export const seasonUpdateSchema = seasonInputSchema.omit({ fieldId: true }).extend({ version: versionSchema });
+export const seasonUpdateSchema = seasonInputSchema
+  .omit({ fieldId: true })
+  .extend({ version: versionSchema });
 
 export const seasonSchema = z.object({
   id: idSchema,

@@ -27,8 +27,16 @@ export function createAppRouter(qc: QueryClient) {
   };
   return createBrowserRouter([
     { path: '/sign-in', lazy: page(() => import('./routes/sign-in')), ErrorBoundary: RouteError },
-    { path: '/forgot-password', lazy: page(() => import('./routes/forgot-password')), ErrorBoundary: RouteError },
-    { path: '/reset-password', lazy: page(() => import('./routes/reset-password')), ErrorBoundary: RouteError },
+    {
+      path: '/forgot-password',
+      lazy: page(() => import('./routes/forgot-password')),
+      ErrorBoundary: RouteError,
+    },
+    {
+      path: '/reset-password',
+      lazy: page(() => import('./routes/reset-password')),
+      ErrorBoundary: RouteError,
+    },
     { path: '/invitation', lazy: page(() => import('./routes/invitation')), ErrorBoundary: RouteError },
     {
       path: '/',

@@ -36,7 +36,8 @@ type Query = Record<string, string | number | boolean | null | undefined>;
 function withQuery(path: string, query?: Query) {
   if (!query) return path;
   const params = new URLSearchParams();
-  for (const [k, v] of Object.entries(query)) if (v !== undefined && v !== null && v !== '') params.set(k, String(v));
+  for (const [k, v] of Object.entries(query))
+    if (v !== undefined && v !== null && v !== '') params.set(k, String(v));
   const qs = params.toString();
   return qs ? `${path}?${qs}` : path;
 }
@@ -63,7 +64,11 @@ async function request(method: string, path: string, body?: unknown, query?: Que
       body: body === undefined ? undefined : form ? body : JSON.stringify(body),
     });
   } catch {
-    throw new ApiError({ status: 0, code: 'network', message: 'The server could not be reached. Check the connection and try again.' });
+    throw new ApiError({
+      status: 0,
+      code: 'network',
+      message: 'The server could not be reached. Check the connection and try again.',
+    });
   }
   const text = await res.text();
   let json: unknown = undefined;

@@ -17,7 +17,11 @@ export function applyApiError<T extends FieldValues>(
   for (const d of error.details) {
     const head = d.path[0];
     if (typeof head === 'string' && fieldNames.includes(head)) {
-      setError(d.path.join('.') as Path<T>, { type: 'server', message: d.message }, { shouldFocus: placed === 0 });
+      setError(
+        d.path.join('.') as Path<T>,
+        { type: 'server', message: d.message },
+        { shouldFocus: placed === 0 },
+      );
       placed += 1;
     } else {
       left.push(d.path.length ? `${d.path.join('.')}: ${d.message}` : d.message);

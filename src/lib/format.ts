@@ -1,4 +1,12 @@
-import { areaToDisplay, areaUnitLabel, rowSpacingToDisplay, lengthUnitLabel, speedToDisplay, speedUnitLabel, type UnitSystem } from '@shared/units';
+import {
+  areaToDisplay,
+  areaUnitLabel,
+  rowSpacingToDisplay,
+  lengthUnitLabel,
+  speedToDisplay,
+  speedUnitLabel,
+  type UnitSystem,
+} from '@shared/units';
 
 const numberFormat = (decimals: number) =>
   new Intl.NumberFormat('en-US', { minimumFractionDigits: decimals, maximumFractionDigits: decimals });
@@ -28,7 +36,8 @@ const dateTimeFormat = new Intl.DateTimeFormat('en-GB', {
 
 /** An ISO timestamp as a short local date; '—' when absent. */
 export const formatDate = (iso: string | null | undefined) => (iso ? dateFormat.format(new Date(iso)) : '—');
-export const formatDateTime = (iso: string | null | undefined) => (iso ? dateTimeFormat.format(new Date(iso)) : '—');
+export const formatDateTime = (iso: string | null | undefined) =>
+  iso ? dateTimeFormat.format(new Date(iso)) : '—';
 
 /** A calendar date (YYYY-MM-DD) without shifting it through a time zone. */
 export const formatCalendarDate = (ymd: string | null | undefined) => {

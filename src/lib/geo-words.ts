@@ -12,7 +12,8 @@ export function featureLabel(f: PreviewFeature): string {
 }
 
 /** PostGIS's reason without the position it appends ("Self-intersection[-93.6 42.01]" → "Self-intersection"). */
-export const reasonWords = (reason: string | null) => (reason ?? 'Not a valid polygon').replace(/\s*\[[^\]]*\]\s*$/, '');
+export const reasonWords = (reason: string | null) =>
+  (reason ?? 'Not a valid polygon').replace(/\s*\[[^\]]*\]\s*$/, '');
 
 /** A place as degrees with hemispheres, 6 decimals (about 10 cm). */
 export const placeWords = ([lon, lat]: number[]) =>

@@ -8,6 +8,7 @@ export const canEditRegister = (me: Me) => me.role === 'admin' || me.role === 'a
 
 /** Planters: admin and agronomist for any grower; a farmer for their own grower only. */
 export const canEditPlanter = (me: Me, growerId?: string | null) =>
-  canEditRegister(me) || (me.role === 'farmer' && !!me.growerId && (growerId == null || growerId === me.growerId));
+  canEditRegister(me) ||
+  (me.role === 'farmer' && !!me.growerId && (growerId == null || growerId === me.growerId));
 
 export const canManagePeople = (me: Me) => me.role === 'admin';

@@ -10,7 +10,12 @@ declare module '@mapbox/mapbox-gl-draw' {
 
   interface DrawOptions {
     displayControlsDefault?: boolean;
-    controls?: Partial<Record<'point' | 'line_string' | 'polygon' | 'trash' | 'combine_features' | 'uncombine_features', boolean>>;
+    controls?: Partial<
+      Record<
+        'point' | 'line_string' | 'polygon' | 'trash' | 'combine_features' | 'uncombine_features',
+        boolean
+      >
+    >;
     keybindings?: boolean;
     touchEnabled?: boolean;
     boxSelect?: boolean;

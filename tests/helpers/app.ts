@@ -8,7 +8,13 @@ import { createSmtpMailer } from '../../server/mail/mailer';
 import { startSmtpFake, type Mailbox } from '../../server/mail/smtp-fake';
 import type { Sequelize } from 'sequelize';
 
-export type TestApp = { app: Express; sequelize: Sequelize; mailbox: Mailbox; jwtSecret: string; close(): Promise<void> };
+export type TestApp = {
+  app: Express;
+  sequelize: Sequelize;
+  mailbox: Mailbox;
+  jwtSecret: string;
+  close(): Promise<void>;
+};
 
 /**
  * The real app on the real database that `npm test` started, with e-mail going through nodemailer to a
@@ -20,7 +26,11 @@ export async function startTestApp(opts: { trustProxy?: number } = {}): Promise<
   const sequelize = createSequelize(url);
   initModels(sequelize);
   const mailbox = await startSmtpFake({ port: 0 });
-  const mailer = createSmtpMailer({ host: '127.0.0.1', port: mailbox.port, from: 'Sowright <test@sowright.invalid>' });
+  const mailer = createSmtpMailer({
+    host: '127.0.0.1',
+    port: mailbox.port,
+    from: 'Sowright <test@sowright.invalid>',
+  });
   const jwtSecret = randomBytes(32).toString('base64url');
   const app = createApp({
     sequelize,
@@ -56,10 +66,18 @@ export class Caller {
     return request(this.app).get(url).set('Cookie', this.cookie);
   }
   post(url: string, body?: object) {
-    return request(this.app).post(url).set('Cookie', this.cookie).set('X-Sowright-Request', '1').send(body ?? {});
+    return request(this.app)
+      .post(url)
+      .set('Cookie', this.cookie)
+      .set('X-Sowright-Request', '1')
+      .send(body ?? {});
   }
   put(url: string, body?: object) {
-    return request(this.app).put(url).set('Cookie', this.cookie).set('X-Sowright-Request', '1').send(body ?? {});
+    return request(this.app)
+      .put(url)
+      .set('Cookie', this.cookie)
+      .set('X-Sowright-Request', '1')
+      .send(body ?? {});
   }
 }
 
@@ -76,6 +94,7 @@ export async function signIn(app: Express, email: string, password: string): Pro
     .post('/api/auth/sign-in')
     .set('X-Sowright-Request', '1')
     .send({ email, password });
-  if (res.status !== 200) throw new Error(`sign-in of ${email} answered ${res.status}: ${JSON.stringify(res.body)}`);
+  if (res.status !== 200)
+    throw new Error(`sign-in of ${email} answered ${res.status}: ${JSON.stringify(res.body)}`);
   return new Caller(app, sessionCookieOf(res));
 }

@@ -1,6 +1,15 @@
 import { randomUUID } from 'node:crypto';
 import type { Express } from 'express';
-import { ConsultantGrower, Farm, Field, Grower, CropSeason, Planter, User, Workspace } from '../../server/db/associations';
+import {
+  ConsultantGrower,
+  Farm,
+  Field,
+  Grower,
+  CropSeason,
+  Planter,
+  User,
+  Workspace,
+} from '../../server/db/associations';
 import { hashPassword } from '../../server/lib/passwords';
 import { inToM, mphToMps } from '../../shared/units';
 import type { Role } from '../../shared/schemas/auth.schema';
@@ -54,8 +63,20 @@ export type World = Awaited<ReturnType<typeof makeWorld>>;
 export async function makeWorld(app: Express, label = 'ws') {
   const ws = await Workspace.create({ name: `${label} ${randomUUID().slice(0, 8)}` });
   const mk = async (name: string) => {
-    const grower = await Grower.create({ workspaceId: ws.id, name, contactName: null, email: null, phone: null, notes: null });
-    const farm = await Farm.create({ workspaceId: ws.id, growerId: grower.id, name: `${name} farm`, notes: null });
+    const grower = await Grower.create({
+      workspaceId: ws.id,
+      name,
+      contactName: null,
+      email: null,
+      phone: null,
+      notes: null,
+    });
+    const farm = await Farm.create({
+      workspaceId: ws.id,
+      growerId: grower.id,
+      name: `${name} farm`,
+      notes: null,
+    });
     const field = await Field.create({
       workspaceId: ws.id,
       growerId: grower.id,
@@ -104,6 +125,7 @@ export async function makeWorld(app: Express, label = 'ws') {
   }
   await ConsultantGrower.create({ userId: people.consultant.id, growerId: a.grower.id, workspaceId: ws.id });
   const callers = {} as Record<Role, Caller>;
-  for (const role of Object.keys(people) as Role[]) callers[role] = await signIn(app, people[role].email, TEST_PASSWORD);
+  for (const role of Object.keys(people) as Role[])
+    callers[role] = await signIn(app, people[role].email, TEST_PASSWORD);
   return { ws, a, b, people, callers };
 }

@@ -37,7 +37,10 @@ async function freshPerson(role: 'agronomist' | 'farmer' = 'agronomist') {
 
 describe('sign-in', () => {
   it('signs in with the right password and sets an HttpOnly, SameSite=Strict session cookie', async () => {
-    const res = await post('/api/auth/sign-in', { email: w.people.agronomist.email, password: TEST_PASSWORD });
+    const res = await post('/api/auth/sign-in', {
+      email: w.people.agronomist.email,
+      password: TEST_PASSWORD,
+    });
     expect(res.status).toBe(200);
     expect(res.body.role).toBe('agronomist');
     const cookie = ([] as string[]).concat(res.headers['set-cookie'] as unknown as string[]).join(';');
@@ -47,15 +50,30 @@ describe('sign-in', () => {
   });
 
   it('checks the e-mail case-insensitively but the password exactly as typed', async () => {
-    const upper = await post('/api/auth/sign-in', { email: w.people.agronomist.email.toUpperCase(), password: TEST_PASSWORD });
+    const upper = await post('/api/auth/sign-in', {
+      email: w.people.agronomist.email.toUpperCase(),
+      password: TEST_PASSWORD,
+    });
     expect(upper.status).toBe(200);
-    const padded = await post('/api/auth/sign-in', { email: w.people.agronomist.email, password: ` ${TEST_PASSWORD} ` }, '198.51.100.8');
+    const padded = await post(
+      '/api/auth/sign-in',
+      { email: w.people.agronomist.email, password: ` ${TEST_PASSWORD} ` },
+      '198.51.100.8',
+    );
     expect(padded.status).toBe(401);
   });
 
   it('answers a wrong password and an unknown e-mail alike, in status and body', async () => {
-    const wrong = await post('/api/auth/sign-in', { email: w.people.farmer.email, password: 'not the password' }, '198.51.100.9');
-    const unknown = await post('/api/auth/sign-in', { email: uniqueEmail('nobody'), password: 'not the password' }, '198.51.100.9');
+    const wrong = await post(
+      '/api/auth/sign-in',
+      { email: w.people.farmer.email, password: 'not the password' },
+      '198.51.100.9',
+    );
+    const unknown = await post(
+      '/api/auth/sign-in',
+      { email: uniqueEmail('nobody'), password: 'not the password' },
+      '198.51.100.9',
+    );
     expect(wrong.status).toBe(401);
     expect(unknown.status).toBe(401);
     expect(unknown.body).toEqual(wrong.body);
@@ -84,13 +102,15 @@ describe('sign-in', () => {
   });
 
   it('refuses state-changing requests without the anti-forgery header or from another origin', async () => {
-    const bare = await request(t.app).post('/api/auth/sign-in').send({ email: w.people.agronomist.email, password: TEST_PASSWORD });
+    const bare = await request(t.app)
+      .post('/api/auth/sign-in')
+      .send({ email: w.people.agronomist.email, password: TEST_PASSWORD });
     expect(bare.status).toBe(403);
     expect(bare.body.error.code).toBe('csrf');
-    const foreign = await post('/api/auth/sign-in', { email: w.people.agronomist.email, password: TEST_PASSWORD }).set(
-      'Origin',
-      'https://elsewhere.example',
-    );
+    const foreign = await post('/api/auth/sign-in', {
+      email: w.people.agronomist.email,
+      password: TEST_PASSWORD,
+    }).set('Origin', 'https://elsewhere.example');
     expect(foreign.status).toBe(403);
   });
 });
@@ -121,7 +141,8 @@ describe('throttling', () => {
   it('throttles reset requests per account', async () => {
     const p = await freshPerson();
     const statuses: number[] = [];
-    for (let i = 0; i < 4; i++) statuses.push((await post('/api/auth/reset-request', { email: p.email }, '203.0.113.60')).status);
+    for (let i = 0; i < 4; i++)
+      statuses.push((await post('/api/auth/reset-request', { email: p.email }, '203.0.113.60')).status);
     expect(statuses).toEqual([202, 202, 202, 429]);
   });
 });
@@ -142,8 +163,16 @@ describe('sessions', () => {
       jwt.sign(claims, t.jwtSecret, { ...base, algorithm: 'HS256' }), // no exp
       jwt.sign(claims, t.jwtSecret, { ...base, algorithm: 'HS512', expiresIn: 600 }),
       jwt.sign(claims, t.jwtSecret, { ...base, issuer: 'someone-else', algorithm: 'HS256', expiresIn: 600 }),
-      jwt.sign(claims, 'another secret of enough length to sign with', { ...base, algorithm: 'HS256', expiresIn: 600 }),
-      jwt.sign({ ...claims, at: claims.at - ABSOLUTE_SECONDS - 10 }, t.jwtSecret, { ...base, algorithm: 'HS256', expiresIn: 600 }),
+      jwt.sign(claims, 'another secret of enough length to sign with', {
+        ...base,
+        algorithm: 'HS256',
+        expiresIn: 600,
+      }),
+      jwt.sign({ ...claims, at: claims.at - ABSOLUTE_SECONDS - 10 }, t.jwtSecret, {
+        ...base,
+        algorithm: 'HS256',
+        expiresIn: 600,
+      }),
     ];
     const good = jwt.sign(claims, t.jwtSecret, { ...base, algorithm: 'HS256', expiresIn: 600 });
     expect((await new Caller(t.app, `sowright_session=${good}`).get('/api/auth/me')).status).toBe(200);
@@ -155,21 +184,41 @@ describe('sessions', () => {
   it('a password change needs the current one and ends other sessions, not this one', async () => {
     const p = await freshPerson();
     const other = await signIn(t.app, p.email, TEST_PASSWORD);
-    const wrong = await p.caller.post('/api/auth/password', { currentPassword: 'nope-nope-nope', newPassword: 'a new long passphrase' });
+    const wrong = await p.caller.post('/api/auth/password', {
+      currentPassword: 'nope-nope-nope',
+      newPassword: 'a new long passphrase',
+    });
     expect(wrong.status).toBe(400);
     expect(wrong.body.error.details[0].path).toEqual(['currentPassword']);
-    const res = await p.caller.post('/api/auth/password', { currentPassword: TEST_PASSWORD, newPassword: 'a new long passphrase' });
+    const res = await p.caller.post('/api/auth/password', {
+      currentPassword: TEST_PASSWORD,
+      newPassword: 'a new long passphrase',
+    });
     expect(res.status).toBe(204);
     p.caller.cookie = sessionCookieOf(res);
     expect((await p.caller.get('/api/auth/me')).status).toBe(200);
     expect((await other.get('/api/auth/me')).status).toBe(401);
-    expect((await post('/api/auth/sign-in', { email: p.email, password: 'a new long passphrase' }, '198.51.100.77')).status).toBe(200);
+    expect(
+      (
+        await post(
+          '/api/auth/sign-in',
+          { email: p.email, password: 'a new long passphrase' },
+          '198.51.100.77',
+        )
+      ).status,
+    ).toBe(200);
   });
 
   it('refuses short and common new passwords', async () => {
     const p = await freshPerson();
-    const short = await p.caller.post('/api/auth/password', { currentPassword: TEST_PASSWORD, newPassword: 'short12' });
-    const common = await p.caller.post('/api/auth/password', { currentPassword: TEST_PASSWORD, newPassword: 'password123' });
+    const short = await p.caller.post('/api/auth/password', {
+      currentPassword: TEST_PASSWORD,
+      newPassword: 'short12',
+    });
+    const common = await p.caller.post('/api/auth/password', {
+      currentPassword: TEST_PASSWORD,
+      newPassword: 'password123',
+    });
     for (const res of [short, common]) {
       expect(res.status).toBe(400);
       expect(res.body.error.details[0].path).toEqual(['newPassword']);
@@ -190,12 +239,30 @@ describe('password reset by e-mail', () => {
     expect(res.status).toBe(202);
     const mail = await t.mailbox.waitFor((m) => m.to.includes(p.email) && /reset/i.test(m.subject));
     const token = /reset-password\?token=([\w-]+)/.exec(mail.text)![1];
-    const done = await post('/api/auth/reset', { token, password: 'fresh furrow passphrase' }, '198.51.100.20');
+    const done = await post(
+      '/api/auth/reset',
+      { token, password: 'fresh furrow passphrase' },
+      '198.51.100.20',
+    );
     expect(done.status).toBe(204);
     expect((await p.caller.get('/api/auth/me')).status).toBe(401);
-    expect((await post('/api/auth/sign-in', { email: p.email, password: TEST_PASSWORD }, '198.51.100.21')).status).toBe(401);
-    expect((await post('/api/auth/sign-in', { email: p.email, password: 'fresh furrow passphrase' }, '198.51.100.21')).status).toBe(200);
-    const again = await post('/api/auth/reset', { token, password: 'another furrow passphrase' }, '198.51.100.20');
+    expect(
+      (await post('/api/auth/sign-in', { email: p.email, password: TEST_PASSWORD }, '198.51.100.21')).status,
+    ).toBe(401);
+    expect(
+      (
+        await post(
+          '/api/auth/sign-in',
+          { email: p.email, password: 'fresh furrow passphrase' },
+          '198.51.100.21',
+        )
+      ).status,
+    ).toBe(200);
+    const again = await post(
+      '/api/auth/reset',
+      { token, password: 'another furrow passphrase' },
+      '198.51.100.20',
+    );
     expect(again.status).toBe(404);
   });
 

@@ -168,19 +168,26 @@ describe('changes that keep sessions', () => {
     expect(self.body.name).toBe('Renamed admin');
     expect((await admin.get('/api/auth/me')).status).toBe(200);
     const consultant = await signIn(t.app, w.people.consultant.email, TEST_PASSWORD);
-    const other = await editPerson(admin, w.people.consultant.id, { name: 'Renamed consultant', growerIds: [w.a.grower.id] });
+    const other = await editPerson(admin, w.people.consultant.id, {
+      name: 'Renamed consultant',
+      growerIds: [w.a.grower.id],
+    });
     expect(other.status, JSON.stringify(other.body)).toBe(200);
     expect((await consultant.get('/api/auth/me')).status).toBe(200);
   });
 
   it('a change of a consultant’s growers ends their sessions (their scope changed)', async () => {
     const consultant = await signIn(t.app, w.people.consultant.email, TEST_PASSWORD);
-    const res = await editPerson(admin, w.people.consultant.id, { growerIds: [w.a.grower.id, w.b.grower.id] });
+    const res = await editPerson(admin, w.people.consultant.id, {
+      growerIds: [w.a.grower.id, w.b.grower.id],
+    });
     expect(res.status, JSON.stringify(res.body)).toBe(200);
     expect((await consultant.get('/api/auth/me')).status).toBe(401);
     const again = await signIn(t.app, w.people.consultant.email, TEST_PASSWORD);
     const growers = await again.get('/api/growers');
-    expect(growers.body.items.map((g: { id: string }) => g.id).sort()).toEqual([w.a.grower.id, w.b.grower.id].sort());
+    expect(growers.body.items.map((g: { id: string }) => g.id).sort()).toEqual(
+      [w.a.grower.id, w.b.grower.id].sort(),
+    );
     await editPerson(admin, w.people.consultant.id, { growerIds: [w.a.grower.id] });
   });
 });

@@ -214,7 +214,9 @@ describe('edits', () => {
     expect(map.zones.features.map((f) => f.properties.id)).toContain(whole.properties.id);
     // The default zone split in two: the part that stays is still the default, the cut-off part is not.
     expect(whole.properties.isDefault).toBe(true);
-    expect(map.zones.features.map((f) => [f.properties.id === whole.properties.id, f.properties.isDefault]).sort()).toEqual([
+    expect(
+      map.zones.features.map((f) => [f.properties.id === whole.properties.id, f.properties.isDefault]).sort(),
+    ).toEqual([
       [false, false],
       [true, true],
     ]);

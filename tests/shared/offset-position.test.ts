@@ -21,11 +21,14 @@ describe('offsetPosition', () => {
   });
 
   it('closes rings and rounds to 7 decimals', () => {
-    const ring = ringFromOffsets([-93.6, 42], [
-      [0, 0],
-      [100, 0],
-      [100, 100],
-    ]);
+    const ring = ringFromOffsets(
+      [-93.6, 42],
+      [
+        [0, 0],
+        [100, 0],
+        [100, 100],
+      ],
+    );
     expect(ring).toHaveLength(4);
     expect(ring[3]).toEqual(ring[0]);
     for (const [x, y] of ring) {

@@ -39,7 +39,14 @@ describe('planter profile schema', () => {
   });
 
   it('needs the interplant rows of a split-row planter and drops them for a single-rank one', () => {
-    const split = { ...planter, rowCount: 23, rowSpacingM: inToM(15), arrangement: 'split-row', rowsPerSection: 1, displaySectionLimit: 24 };
+    const split = {
+      ...planter,
+      rowCount: 23,
+      rowSpacingM: inToM(15),
+      arrangement: 'split-row',
+      rowsPerSection: 1,
+      displaySectionLimit: 24,
+    };
     expect(pathsOf(planterInputSchema.safeParse(split))).toEqual(['interplantRowCount']);
     expect(planterInputSchema.parse({ ...split, interplantRowCount: 11 }).interplantRowCount).toBe(11);
     expect(planterInputSchema.parse({ ...planter, interplantRowCount: 11 }).interplantRowCount).toBeNull();
@@ -47,14 +54,30 @@ describe('planter profile schema', () => {
 
   it('names the field of each inconsistency', () => {
     expect(pathsOf(planterInputSchema.safeParse({ ...planter, discRpmMin: 50 }))).toEqual(['discRpmMax']);
-    expect(pathsOf(planterInputSchema.safeParse({ ...planter, speedPlannedMps: mphToMps(3) }))).toEqual(['speedPlannedMps']);
-    expect(pathsOf(planterInputSchema.safeParse({ ...planter, speedMaxMps: mphToMps(4.5) }))).toEqual(['speedMaxMps']);
-    expect(pathsOf(planterInputSchema.safeParse({ ...planter, rowsPerSection: 30 }))).toEqual(['rowsPerSection']);
+    expect(pathsOf(planterInputSchema.safeParse({ ...planter, speedPlannedMps: mphToMps(3) }))).toEqual([
+      'speedPlannedMps',
+    ]);
+    expect(pathsOf(planterInputSchema.safeParse({ ...planter, speedMaxMps: mphToMps(4.5) }))).toEqual([
+      'speedMaxMps',
+    ]);
+    expect(pathsOf(planterInputSchema.safeParse({ ...planter, rowsPerSection: 30 }))).toEqual([
+      'rowsPerSection',
+    ]);
     expect(pathsOf(planterInputSchema.safeParse({ ...planter, rowCount: 24.5 }))).toContain('rowCount');
     expect(
-      pathsOf(planterInputSchema.safeParse({ ...planter, holesPerDisc: [{ crop: 'corn', holes: 30 }, { crop: 'corn', holes: 24 }] })),
+      pathsOf(
+        planterInputSchema.safeParse({
+          ...planter,
+          holesPerDisc: [
+            { crop: 'corn', holes: 30 },
+            { crop: 'corn', holes: 24 },
+          ],
+        }),
+      ),
     ).toEqual(['holesPerDisc']);
-    expect(pathsOf(planterInputSchema.safeParse({ ...planter, groundSpeedSource: 'sonar' }))).toEqual(['groundSpeedSource']);
+    expect(pathsOf(planterInputSchema.safeParse({ ...planter, groundSpeedSource: 'sonar' }))).toEqual([
+      'groundSpeedSource',
+    ]);
   });
 
   it('does not mutate its input', () => {
@@ -67,7 +90,10 @@ describe('planter profile schema', () => {
 
 describe('account schemas', () => {
   it('keeps passwords exactly as typed and refuses short or common ones', () => {
-    expect(signInSchema.parse({ email: ' Ada@Example.COM ', password: ' pw ' })).toEqual({ email: 'ada@example.com', password: ' pw ' });
+    expect(signInSchema.parse({ email: ' Ada@Example.COM ', password: ' pw ' })).toEqual({
+      email: 'ada@example.com',
+      password: ' pw ',
+    });
     expect(newPasswordSchema.safeParse('seven77').success).toBe(false);
     expect(newPasswordSchema.safeParse('Password1').success).toBe(false);
     expect(newPasswordSchema.safeParse('a'.repeat(64)).success).toBe(true);
@@ -77,7 +103,9 @@ describe('account schemas', () => {
   it('a farmer invitation needs a grower', () => {
     const r = inviteUserSchema.safeParse({ email: 'a@b.example', name: 'A', role: 'farmer' });
     expect(pathsOf(r)).toEqual(['growerId']);
-    expect(inviteUserSchema.safeParse({ email: 'a@b.example', name: 'A', role: 'farmer', growerId: ID }).success).toBe(true);
+    expect(
+      inviteUserSchema.safeParse({ email: 'a@b.example', name: 'A', role: 'farmer', growerId: ID }).success,
+    ).toBe(true);
   });
 });
 
@@ -99,9 +127,19 @@ describe('register schemas', () => {
       [-93.59, 42.01],
       [-93.6, 42],
     ];
-    expect(fieldInputSchema.safeParse({ farmId: ID, name: 'F', boundary: { type: 'Polygon', coordinates: [ring] } }).success).toBe(true);
+    expect(
+      fieldInputSchema.safeParse({
+        farmId: ID,
+        name: 'F',
+        boundary: { type: 'Polygon', coordinates: [ring] },
+      }).success,
+    ).toBe(true);
     const far = ring.map(([x, y], i) => (i === 1 ? [200, y] : [x, y]));
-    const r = fieldInputSchema.safeParse({ farmId: ID, name: 'F', boundary: { type: 'Polygon', coordinates: [far] } });
+    const r = fieldInputSchema.safeParse({
+      farmId: ID,
+      name: 'F',
+      boundary: { type: 'Polygon', coordinates: [far] },
+    });
     expect(r.success).toBe(false);
     expect(pathsOf(r).some((p) => p.startsWith('boundary'))).toBe(true);
   });
@@ -112,8 +150,14 @@ describe('crop season schema', () => {
     const { seasonInputSchema } = await import('../../shared/schemas/season.schema');
     const base = { fieldId: ID, year: 2027, crop: 'corn' };
     expect(seasonInputSchema.parse({ ...base, plannedPlantingDate: '' }).plannedPlantingDate).toBeNull();
-    expect(seasonInputSchema.parse({ ...base, plannedPlantingDate: '2027-04-28' }).plannedPlantingDate).toBe('2027-04-28');
-    expect(pathsOf(seasonInputSchema.safeParse({ ...base, plannedPlantingDate: '28/04/2027' }))).toEqual(['plannedPlantingDate']);
-    expect(pathsOf(seasonInputSchema.safeParse({ ...base, plannedPlantingDate: '2027-13-45' }))).toEqual(['plannedPlantingDate']);
+    expect(seasonInputSchema.parse({ ...base, plannedPlantingDate: '2027-04-28' }).plannedPlantingDate).toBe(
+      '2027-04-28',
+    );
+    expect(pathsOf(seasonInputSchema.safeParse({ ...base, plannedPlantingDate: '28/04/2027' }))).toEqual([
+      'plannedPlantingDate',
+    ]);
+    expect(pathsOf(seasonInputSchema.safeParse({ ...base, plannedPlantingDate: '2027-13-45' }))).toEqual([
+      'plannedPlantingDate',
+    ]);
   });
 });

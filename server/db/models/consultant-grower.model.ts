@@ -1,7 +1,17 @@
-import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
+import {
+  DataTypes,
+  Model,
+  type CreationOptional,
+  type InferAttributes,
+  type InferCreationAttributes,
+  type Sequelize,
+} from 'sequelize';
 
 /** Which growers a consultant may read. */
-export class ConsultantGrower extends Model<InferAttributes<ConsultantGrower>, InferCreationAttributes<ConsultantGrower>> {
+export class ConsultantGrower extends Model<
+  InferAttributes<ConsultantGrower>,
+  InferCreationAttributes<ConsultantGrower>
+> {
   declare userId: string;
   declare growerId: string;
   declare workspaceId: string;

@@ -14,14 +14,21 @@ import { inToM, mphToMps } from '../../../shared/units';
  */
 export const DEMO_WORKSPACE = 'Quillmere Agronomy (demo)';
 /** Demo sign-ins, also printed by `npm start` and listed in the README. */
-export const DEMO_USERS = JSON.parse(readFileSync(new URL('../demo-users.json', import.meta.url), 'utf8')) as {
+export const DEMO_USERS = JSON.parse(
+  readFileSync(new URL('../demo-users.json', import.meta.url), 'utf8'),
+) as {
   email: string;
   name: string;
   role: Role;
   password: string;
 }[];
 
-type FieldPlan = { name: string; origin: [number, number]; outline: [number, number][]; holes?: [number, number][][] };
+type FieldPlan = {
+  name: string;
+  origin: [number, number];
+  outline: [number, number][];
+  holes?: [number, number][][];
+};
 
 // Outlines in metres east and north of each field's south-west corner (a half-mile is 804.672 m).
 const QUARTER: [number, number][] = [
@@ -59,7 +66,10 @@ const GROWERS: {
   email: string;
   phone: string;
   farms: { name: string; fields: FieldPlan[] }[];
-  planter: Omit<InferCreationAttributes<Planter>, 'workspaceId' | 'growerId' | 'id' | 'version' | 'archivedAt' | 'createdAt' | 'updatedAt'>;
+  planter: Omit<
+    InferCreationAttributes<Planter>,
+    'workspaceId' | 'growerId' | 'id' | 'version' | 'archivedAt' | 'createdAt' | 'updatedAt'
+  >;
 }[] = [
   {
     name: 'Oduya Family Farms',
@@ -87,7 +97,10 @@ const GROWERS: {
           { name: 'Schoolhouse forty', origin: [-93.6118, 42.0297], outline: CUT_CORNER },
         ],
       },
-      { name: 'River farm', fields: [{ name: 'Creek bend', origin: [-93.5862, 42.0153], outline: CREEK_BEND }] },
+      {
+        name: 'River farm',
+        fields: [{ name: 'Creek bend', origin: [-93.5862, 42.0153], outline: CREEK_BEND }],
+      },
     ],
     planter: {
       name: '24-row front fold',
@@ -151,7 +164,10 @@ const GROWERS: {
     email: 'sam@halloway-ridge.example',
     phone: '+1 555 0113',
     farms: [
-      { name: 'Ridge farm', fields: [{ name: 'West slope', origin: [-95.9931, 41.2874], outline: CUT_CORNER }] },
+      {
+        name: 'Ridge farm',
+        fields: [{ name: 'West slope', origin: [-95.9931, 41.2874], outline: CUT_CORNER }],
+      },
     ],
     planter: {
       name: '8-row rigid',
@@ -189,9 +205,17 @@ export async function up({ context: sequelize }: MigrationContext) {
       });
       growers.push(grower);
       for (const f of g.farms) {
-        const farm = await Farm.create({ workspaceId: ws.id, growerId: grower.id, name: f.name, notes: null });
+        const farm = await Farm.create({
+          workspaceId: ws.id,
+          growerId: grower.id,
+          name: f.name,
+          notes: null,
+        });
         for (const plan of f.fields) {
-          const rings = [ringFromOffsets(plan.origin, plan.outline), ...(plan.holes ?? []).map((h) => ringFromOffsets(plan.origin, h).reverse())];
+          const rings = [
+            ringFromOffsets(plan.origin, plan.outline),
+            ...(plan.holes ?? []).map((h) => ringFromOffsets(plan.origin, h).reverse()),
+          ];
           const field = await Field.create({
             workspaceId: ws.id,
             growerId: grower.id,
@@ -234,5 +258,7 @@ export async function up({ context: sequelize }: MigrationContext) {
 }
 
 export async function down({ context: sequelize }: MigrationContext) {
-  await sequelize.query('DELETE FROM workspaces WHERE name = :name', { replacements: { name: DEMO_WORKSPACE } });
+  await sequelize.query('DELETE FROM workspaces WHERE name = :name', {
+    replacements: { name: DEMO_WORKSPACE },
+  });
 }

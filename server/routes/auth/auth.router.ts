@@ -25,7 +25,10 @@ import * as auth from './auth.service';
 export type AuthDeps = { keys: SessionKeys; cookie: CookieSettings; mailer: Mailer; appUrl: string };
 
 const ip = (req: Request) => ipKeyGenerator(req.ip ?? '0.0.0.0');
-const emailOf = (req: Request) => String((req.body as { email?: unknown })?.email ?? '').trim().toLowerCase();
+const emailOf = (req: Request) =>
+  String((req.body as { email?: unknown })?.email ?? '')
+    .trim()
+    .toLowerCase();
 
 function limiter(opts: Partial<Options> & Pick<Options, 'limit' | 'windowMs' | 'keyGenerator'>) {
   return rateLimit({
@@ -34,7 +37,9 @@ function limiter(opts: Partial<Options> & Pick<Options, 'limit' | 'windowMs' | '
     ...opts,
     handler: (req, res, _next, options) => {
       const resetTime = (req as Request & { rateLimit?: { resetTime?: Date } }).rateLimit?.resetTime;
-      const seconds = resetTime ? Math.max(1, Math.ceil((resetTime.getTime() - Date.now()) / 1000)) : Math.ceil(options.windowMs / 1000);
+      const seconds = resetTime
+        ? Math.max(1, Math.ceil((resetTime.getTime() - Date.now()) / 1000))
+        : Math.ceil(options.windowMs / 1000);
       res.set('Retry-After', String(seconds));
       res.status(429).json({
         error: { code: 'too_many_attempts', message: `Too many attempts. Try again in ${seconds} seconds.` },

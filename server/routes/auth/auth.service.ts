@@ -53,17 +53,17 @@ export async function changePassword(userId: string, current: string, next: stri
   }
   user.passwordHash = await hashPassword(next);
   user.tokenVersion += 1;
-  await User.update({ passwordHash: user.passwordHash, tokenVersion: user.tokenVersion }, { where: { id: user.id } });
+  await User.update(
+    { passwordHash: user.passwordHash, tokenVersion: user.tokenVersion },
+    { where: { id: user.id } },
+  );
   return user;
 }
 
 async function issueToken(userId: string, purpose: TokenPurpose, hours: number): Promise<string> {
   const token = randomBytes(32).toString('base64url');
   // One live link per purpose: older ones stop working.
-  await UserToken.update(
-    { usedAt: new Date() },
-    { where: { userId, purpose, usedAt: { [Op.is]: null } } },
-  );
+  await UserToken.update({ usedAt: new Date() }, { where: { userId, purpose, usedAt: { [Op.is]: null } } });
   await UserToken.create({
     userId,
     purpose,
@@ -104,7 +104,8 @@ export async function resetPassword(token: string, password: string) {
   const row = await liveToken(token, 'reset');
   if (!row) throw new NotFoundError('Reset link (it may have expired or been used)');
   const user = await User.findByPk(row.userId);
-  if (!user || user.status !== 'active') throw new NotFoundError('Reset link (it may have expired or been used)');
+  if (!user || user.status !== 'active')
+    throw new NotFoundError('Reset link (it may have expired or been used)');
   await User.update(
     { passwordHash: await hashPassword(password), tokenVersion: user.tokenVersion + 1 },
     { where: { id: user.id } },
@@ -134,7 +135,9 @@ export async function sendInvitation(user: User, mailer: Mailer, appUrl: string,
 
 export async function describeInvitation(token: string) {
   const row = await liveToken(token, 'invite');
-  const user = row ? await User.findByPk(row.userId, { include: [{ model: Workspace, as: 'workspace' }] }) : null;
+  const user = row
+    ? await User.findByPk(row.userId, { include: [{ model: Workspace, as: 'workspace' }] })
+    : null;
   if (!row || !user || user.status !== 'invited') {
     throw new NotFoundError('Invitation (it may have expired or been used)');
   }

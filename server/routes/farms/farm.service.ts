@@ -4,12 +4,22 @@ import { Farm, Grower } from '../../db/associations';
 import { archivedWhere, assertFound, assertVersion, inScope, iso, scopedWhere } from '../../lib/scope';
 import { NotFoundError } from '../../errors';
 import type { Actor } from '../../types';
-import type { Farm as FarmDto, farmInputSchema, farmListQuerySchema, farmUpdateSchema } from '../../../shared/schemas/farm.schema';
+import type {
+  Farm as FarmDto,
+  farmInputSchema,
+  farmListQuerySchema,
+  farmUpdateSchema,
+} from '../../../shared/schemas/farm.schema';
 
 const extra = [
-  [literal(`(SELECT count(*) FROM fields f WHERE f.farm_id = "Farm"."id" AND f.archived_at IS NULL)`), 'fieldCount'],
   [
-    literal(`(SELECT coalesce(sum(f.area_m2), 0) FROM fields f WHERE f.farm_id = "Farm"."id" AND f.archived_at IS NULL)`),
+    literal(`(SELECT count(*) FROM fields f WHERE f.farm_id = "Farm"."id" AND f.archived_at IS NULL)`),
+    'fieldCount',
+  ],
+  [
+    literal(
+      `(SELECT coalesce(sum(f.area_m2), 0) FROM fields f WHERE f.farm_id = "Farm"."id" AND f.archived_at IS NULL)`,
+    ),
     'areaM2',
   ],
 ] as [ReturnType<typeof literal>, string][];
@@ -33,7 +43,10 @@ function toDto(f: Farm): FarmDto {
 
 export async function listFarms(actor: Actor, q: z.output<typeof farmListQuerySchema>) {
   const rows = await Farm.findAll({
-    where: scopedWhere(actor, { ...archivedWhere(q.archived), ...(q.growerId ? { growerId: q.growerId } : {}) }),
+    where: scopedWhere(actor, {
+      ...archivedWhere(q.archived),
+      ...(q.growerId ? { growerId: q.growerId } : {}),
+    }),
     attributes: { include: extra },
     include,
     order: [['name', 'ASC']],
@@ -42,7 +55,11 @@ export async function listFarms(actor: Actor, q: z.output<typeof farmListQuerySc
 }
 
 async function findScoped(actor: Actor, id: string) {
-  const row = await Farm.findOne({ where: scopedWhere(actor, { id }), attributes: { include: extra }, include });
+  const row = await Farm.findOne({
+    where: scopedWhere(actor, { id }),
+    attributes: { include: extra },
+    include,
+  });
   return assertFound(row, 'Farm');
 }
 
@@ -51,7 +68,12 @@ export const getFarm = async (actor: Actor, id: string) => toDto(await findScope
 export async function createFarm(actor: Actor, input: z.output<typeof farmInputSchema>) {
   const grower = await Grower.findByPk(input.growerId);
   if (!grower || !inScope(actor, grower.workspaceId, grower.id)) throw new NotFoundError('Grower');
-  const farm = await Farm.create({ workspaceId: actor.workspaceId, growerId: grower.id, name: input.name, notes: input.notes });
+  const farm = await Farm.create({
+    workspaceId: actor.workspaceId,
+    growerId: grower.id,
+    name: input.name,
+    notes: input.notes,
+  });
   return getFarm(actor, farm.id);
 }
 

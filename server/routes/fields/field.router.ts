@@ -1,4 +1,8 @@
-import { fieldInputSchema, fieldListQuerySchema, fieldUpdateSchema } from '../../../shared/schemas/field.schema';
+import {
+  fieldInputSchema,
+  fieldListQuerySchema,
+  fieldUpdateSchema,
+} from '../../../shared/schemas/field.schema';
 import { registerRouter } from '../register-router';
 import * as fields from './field.service';
 

@@ -7,9 +7,18 @@ import type { growerInputSchema, growerUpdateSchema } from '../../../shared/sche
 import type { z } from 'zod';
 
 const counts = [
-  [literal(`(SELECT count(*) FROM farms f WHERE f.grower_id = "Grower"."id" AND f.archived_at IS NULL)`), 'farmCount'],
-  [literal(`(SELECT count(*) FROM fields f WHERE f.grower_id = "Grower"."id" AND f.archived_at IS NULL)`), 'fieldCount'],
-  [literal(`(SELECT count(*) FROM planters p WHERE p.grower_id = "Grower"."id" AND p.archived_at IS NULL)`), 'planterCount'],
+  [
+    literal(`(SELECT count(*) FROM farms f WHERE f.grower_id = "Grower"."id" AND f.archived_at IS NULL)`),
+    'farmCount',
+  ],
+  [
+    literal(`(SELECT count(*) FROM fields f WHERE f.grower_id = "Grower"."id" AND f.archived_at IS NULL)`),
+    'fieldCount',
+  ],
+  [
+    literal(`(SELECT count(*) FROM planters p WHERE p.grower_id = "Grower"."id" AND p.archived_at IS NULL)`),
+    'planterCount',
+  ],
 ] as const;
 
 function toDto(g: Grower): GrowerDto {
@@ -66,7 +75,13 @@ export async function createGrower(actor: Actor, input: z.output<typeof growerIn
 export async function updateGrower(actor: Actor, id: string, input: z.output<typeof growerUpdateSchema>) {
   const g = await findScoped(actor, id);
   assertVersion(g.version, input.version);
-  g.set({ name: input.name, contactName: input.contactName, email: input.email, phone: input.phone, notes: input.notes });
+  g.set({
+    name: input.name,
+    contactName: input.contactName,
+    email: input.email,
+    phone: input.phone,
+    notes: input.notes,
+  });
   await g.save();
   return getGrower(actor, id);
 }

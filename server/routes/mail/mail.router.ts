@@ -15,7 +15,10 @@ export function mailRouter(mailbox: Mailbox | null) {
     '/',
     handle({}, async ({ req }) => {
       if (!mailbox) return { items: [] };
-      const people = await User.findAll({ where: { workspaceId: actorOf(req).workspaceId }, attributes: ['email'] });
+      const people = await User.findAll({
+        where: { workspaceId: actorOf(req).workspaceId },
+        attributes: ['email'],
+      });
       const ours = new Set(people.map((p) => p.email.toLowerCase()));
       const items = mailbox
         .messages()

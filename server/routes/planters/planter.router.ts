@@ -1,4 +1,8 @@
-import { planterInputSchema, planterListQuerySchema, planterUpdateSchema } from '../../../shared/schemas/planter.schema';
+import {
+  planterInputSchema,
+  planterListQuerySchema,
+  planterUpdateSchema,
+} from '../../../shared/schemas/planter.schema';
 import { registerRouter } from '../register-router';
 import * as planters from './planter.service';
 

@@ -42,7 +42,10 @@ function toDto(p: Planter): PlanterDto {
 
 export async function listPlanters(actor: Actor, q: z.output<typeof planterListQuerySchema>) {
   const rows = await Planter.findAll({
-    where: scopedWhere(actor, { ...archivedWhere(q.archived), ...(q.growerId ? { growerId: q.growerId } : {}) }),
+    where: scopedWhere(actor, {
+      ...archivedWhere(q.archived),
+      ...(q.growerId ? { growerId: q.growerId } : {}),
+    }),
     include,
     order: [['name', 'ASC']],
   });
@@ -79,7 +82,11 @@ function profileOf(input: z.output<typeof planterUpdateSchema> | z.output<typeof
 export async function createPlanter(actor: Actor, input: z.output<typeof planterInputSchema>) {
   const grower = await Grower.findByPk(input.growerId);
   if (!grower || !inScope(actor, grower.workspaceId, grower.id)) throw new NotFoundError('Grower');
-  const planter = await Planter.create({ workspaceId: actor.workspaceId, growerId: grower.id, ...profileOf(input) });
+  const planter = await Planter.create({
+    workspaceId: actor.workspaceId,
+    growerId: grower.id,
+    ...profileOf(input),
+  });
   return getPlanter(actor, planter.id);
 }
 

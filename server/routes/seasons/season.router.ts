@@ -1,4 +1,8 @@
-import { seasonInputSchema, seasonListQuerySchema, seasonUpdateSchema } from '../../../shared/schemas/season.schema';
+import {
+  seasonInputSchema,
+  seasonListQuerySchema,
+  seasonUpdateSchema,
+} from '../../../shared/schemas/season.schema';
 import { registerRouter } from '../register-router';
 import * as seasons from './season.service';
 

@@ -79,7 +79,12 @@ export async function createSeason(actor: Actor, input: z.output<typeof seasonIn
 export async function updateSeason(actor: Actor, id: string, input: z.output<typeof seasonUpdateSchema>) {
   const season = await findScoped(actor, id);
   assertVersion(season.version, input.version);
-  season.set({ year: input.year, crop: input.crop, plannedPlantingDate: input.plannedPlantingDate, notes: input.notes });
+  season.set({
+    year: input.year,
+    crop: input.crop,
+    plannedPlantingDate: input.plannedPlantingDate,
+    notes: input.notes,
+  });
   await season.save();
   return getSeason(actor, id);
 }

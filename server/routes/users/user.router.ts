@@ -15,8 +15,14 @@ async function nameOf(userId: string) {
 export function userRouter({ mailer, appUrl }: { mailer: Mailer; appUrl: string }) {
   const router = Router();
   router.use(requireRole('admin'));
-  router.get('/', handle({}, ({ req }) => users.listUsers(actorOf(req))));
-  router.get('/:id', handle({ params: idParamsSchema }, ({ req, params }) => users.getUser(actorOf(req), params.id)));
+  router.get(
+    '/',
+    handle({}, ({ req }) => users.listUsers(actorOf(req))),
+  );
+  router.get(
+    '/:id',
+    handle({ params: idParamsSchema }, ({ req, params }) => users.getUser(actorOf(req), params.id)),
+  );
   router.post(
     '/',
     handle({ body: inviteUserSchema }, async ({ req, res, body }) => {

@@ -5,7 +5,11 @@ import { ConflictError, NotFoundError } from '../../errors';
 import { assertFound, assertVersion, iso } from '../../lib/scope';
 import type { Mailer } from '../../mail/mailer';
 import type { Actor } from '../../types';
-import type { inviteUserSchema, updateUserSchema, User as UserDto } from '../../../shared/schemas/user.schema';
+import type {
+  inviteUserSchema,
+  updateUserSchema,
+  User as UserDto,
+} from '../../../shared/schemas/user.schema';
 import { sendInvitation } from '../auth/auth.service';
 
 function toDto(u: User, growerIds: string[]): UserDto {
@@ -63,7 +67,12 @@ async function applyAssignments(actor: Actor, user: User, a: Assignment) {
   return growerIds;
 }
 
-async function writeConsultantGrowers(actor: Actor, userId: string, growerIds: string[], transaction: Transaction) {
+async function writeConsultantGrowers(
+  actor: Actor,
+  userId: string,
+  growerIds: string[],
+  transaction: Transaction,
+) {
   await ConsultantGrower.destroy({ where: { userId }, transaction });
   if (growerIds.length) {
     await ConsultantGrower.bulkCreate(
@@ -104,13 +113,19 @@ export async function updateUser(actor: Actor, id: string, input: z.output<typeo
   const user = await findScoped(actor, id);
   assertVersion(user.version, input.version);
   if (user.id === actor.userId && (input.role !== user.role || input.status === 'disabled')) {
-    throw new ConflictError('You cannot change your own role or disable yourself; ask another admin', 'conflict', [
-      { path: ['role'], message: 'You cannot change your own role' },
-    ]);
+    throw new ConflictError(
+      'You cannot change your own role or disable yourself; ask another admin',
+      'conflict',
+      [{ path: ['role'], message: 'You cannot change your own role' }],
+    );
   }
-  const statusChanged = input.status !== undefined && user.status !== 'invited' && input.status !== user.status;
+  const statusChanged =
+    input.status !== undefined && user.status !== 'invited' && input.status !== user.status;
   const roleChanged = input.role !== user.role;
-  const scopeBefore = JSON.stringify([user.growerId, [...((await assignmentsOf([user.id])).get(user.id) ?? [])].sort()]);
+  const scopeBefore = JSON.stringify([
+    user.growerId,
+    [...((await assignmentsOf([user.id])).get(user.id) ?? [])].sort(),
+  ]);
   user.name = input.name;
   user.role = input.role;
   if (statusChanged && input.status) user.status = input.status;
@@ -126,7 +141,13 @@ export async function updateUser(actor: Actor, id: string, input: z.output<typeo
   return getUser(actor, id);
 }
 
-export async function resendInvitation(actor: Actor, id: string, mailer: Mailer, appUrl: string, invitedBy: string) {
+export async function resendInvitation(
+  actor: Actor,
+  id: string,
+  mailer: Mailer,
+  appUrl: string,
+  invitedBy: string,
+) {
   const user = await findScoped(actor, id);
   await sendInvitation(user, mailer, appUrl, invitedBy);
 }

@@ -22,8 +22,8 @@ export function Component() {
       />
       <Section title="Units">
         <p className="mb-2 text-sm text-ink-soft">
-          Areas, row spacing and speeds are shown and typed in these units. Sowright stores metric values, so switching
-          changes nothing that is saved.
+          Areas, row spacing and speeds are shown and typed in these units. Sowright stores metric values, so
+          switching changes nothing that is saved.
         </p>
         <UnitSystemSwitch value={me.unitSystem} legend="Show measurements in" />
       </Section>

@@ -47,7 +47,9 @@ export function AppRoot() {
   }
   if (!me.data) {
     if (signOut.isPending || signOut.isSuccess) return <Navigate to="/sign-in" replace />;
-    return <Navigate to={`/sign-in?next=${encodeURIComponent(location.pathname + location.search)}`} replace />;
+    return (
+      <Navigate to={`/sign-in?next=${encodeURIComponent(location.pathname + location.search)}`} replace />
+    );
   }
   const user = me.data;
   return (
@@ -67,7 +69,9 @@ export function AppRoot() {
                 size="sm"
                 variant="ghost"
                 busy={signOut.isPending}
-                onClick={() => signOut.mutate(undefined, { onSettled: () => navigate('/sign-in', { replace: true }) })}
+                onClick={() =>
+                  signOut.mutate(undefined, { onSettled: () => navigate('/sign-in', { replace: true }) })
+                }
               >
                 Sign out
               </Button>

@@ -17,7 +17,10 @@ export function Component() {
       allowed={canEditRegister(useViewer())}
       query={id ? query : null}
       title={(f) => (f ? `Edit ${f.name}` : 'Add a farm')}
-      crumbs={(f) => [{ label: 'Farms', to: '/farms' }, ...(f ? [{ label: f.growerName, to: `/growers/${f.growerId}` }] : [])]}
+      crumbs={(f) => [
+        { label: 'Farms', to: '/farms' },
+        ...(f ? [{ label: f.growerName, to: `/growers/${f.growerId}` }] : []),
+      ]}
     >
       {(f) => (
         <FarmForm

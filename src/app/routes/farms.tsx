@@ -18,7 +18,13 @@ export function Component() {
       <PageHeader
         title="Farms"
         description="A farm groups a grower's fields. Open a farm to see its fields."
-        actions={canEdit ? <ButtonLink variant="primary" to={newTo}>Add farm</ButtonLink> : null}
+        actions={
+          canEdit ? (
+            <ButtonLink variant="primary" to={newTo}>
+              Add farm
+            </ButtonLink>
+          ) : null
+        }
       />
       {filters.bar}
       <QueryState query={farms}>{(data) => <FarmTable farms={data} canEdit={canEdit} />}</QueryState>

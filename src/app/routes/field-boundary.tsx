@@ -46,9 +46,13 @@ function BoundaryPage({ field }: { field: Field }) {
   const saved = () => navigate(`/fields/${field.id}`);
   // A drawn outline PostGIS refused: read it as an import, so its repair and change of area can be shown.
   const seeRepair = (geometry: AreaGeometry) => {
-    const file = new File([JSON.stringify({ type: 'Feature', properties: { name: 'Drawn outline' }, geometry })], 'drawn-outline.geojson', {
-      type: 'application/geo+json',
-    });
+    const file = new File(
+      [JSON.stringify({ type: 'Feature', properties: { name: 'Drawn outline' }, geometry })],
+      'drawn-outline.geojson',
+      {
+        type: 'application/geo+json',
+      },
+    );
     check.mutate(
       { file, purpose: 'boundary', fieldId: field.id },
       {
@@ -95,15 +99,28 @@ function BoundaryPage({ field }: { field: Field }) {
           {preview ? (
             preview.features.length === 0 ? (
               <Notice tone="caution" title="No polygons in this file" className="mt-5">
-                A boundary is made of polygons; this file has none that Sowright could read. Choose another file.
+                A boundary is made of polygons; this file has none that Sowright could read. Choose another
+                file.
               </Notice>
             ) : (
               <>
                 <Section title="What makes the boundary">
-                  <FeaturePicker preview={preview} system={system} chosen={chosen} onChange={setChosen} context={field.boundary} />
+                  <FeaturePicker
+                    preview={preview}
+                    system={system}
+                    chosen={chosen}
+                    onChange={setChosen}
+                    context={field.boundary}
+                  />
                 </Section>
                 <Section title="Save">
-                  <BoundaryFromFile field={field} preview={preview} chosen={chosen} system={system} onSaved={saved} />
+                  <BoundaryFromFile
+                    field={field}
+                    preview={preview}
+                    chosen={chosen}
+                    system={system}
+                    onSaved={saved}
+                  />
                 </Section>
               </>
             )

@@ -16,7 +16,10 @@ export function Component() {
       allowed={canEditRegister(useViewer())}
       query={id ? query : null}
       title={(f) => (f ? `Edit ${f.name}` : 'Add a field')}
-      crumbs={(f) => [{ label: 'Fields', to: '/fields' }, ...(f ? [{ label: f.name, to: `/fields/${f.id}` }] : [])]}
+      crumbs={(f) => [
+        { label: 'Fields', to: '/fields' },
+        ...(f ? [{ label: f.name, to: `/fields/${f.id}` }] : []),
+      ]}
     >
       {(f) => (
         <FieldForm

@@ -37,11 +37,16 @@ function FieldPage({ field }: { field: Field }) {
   const other = system === 'imperial' ? 'metric' : 'imperial';
   return (
     <>
-      <RecordHeader resource="fields" record={field} canEdit={canEdit} crumbs={[
+      <RecordHeader
+        resource="fields"
+        record={field}
+        canEdit={canEdit}
+        crumbs={[
           { label: 'Growers', to: '/growers' },
           { label: field.growerName, to: `/growers/${field.growerId}` },
           { label: field.farmName, to: `/fields?growerId=${field.growerId}&farmId=${field.farmId}` },
-        ]} />
+        ]}
+      />
       <div className="flex flex-wrap items-start gap-5">
         <div className="min-w-72 flex-1">
           <Facts
@@ -66,7 +71,8 @@ function FieldPage({ field }: { field: Field }) {
                 label: 'Boundary',
                 value: field.boundary ? (
                   <Badge tone="ok">
-                    On file: {field.boundary.coordinates.length} {field.boundary.coordinates.length === 1 ? 'part' : 'parts'}
+                    On file: {field.boundary.coordinates.length}{' '}
+                    {field.boundary.coordinates.length === 1 ? 'part' : 'parts'}
                   </Badge>
                 ) : (
                   <Badge tone="caution">Missing</Badge>
@@ -74,15 +80,22 @@ function FieldPage({ field }: { field: Field }) {
               },
             ]}
           />
-          {field.notes ? <p className="mt-3 text-sm whitespace-pre-line text-ink-soft">{field.notes}</p> : null}
+          {field.notes ? (
+            <p className="mt-3 text-sm whitespace-pre-line text-ink-soft">{field.notes}</p>
+          ) : null}
           {field.boundary ? null : (
             <p className="mt-3 text-sm text-ink-soft">
-              No boundary is on file. Zones and rates are planned inside a boundary, so this field needs one first.
+              No boundary is on file. Zones and rates are planned inside a boundary, so this field needs one
+              first.
             </p>
           )}
           {canEdit && !field.archivedAt ? (
             <div className="mt-3 flex flex-wrap gap-2">
-              <ButtonLink variant={field.boundary ? 'secondary' : 'primary'} size="sm" to={`/fields/${field.id}/boundary`}>
+              <ButtonLink
+                variant={field.boundary ? 'secondary' : 'primary'}
+                size="sm"
+                to={`/fields/${field.id}/boundary`}
+              >
                 {field.boundary ? 'Change the boundary' : 'Bring in a boundary'}
               </ButtonLink>
               {field.boundary ? (
@@ -96,16 +109,26 @@ function FieldPage({ field }: { field: Field }) {
         {field.boundary ? (
           <figure className="shrink-0">
             <BoundaryOutline boundary={field.boundary} label={`Outline of the boundary of ${field.name}`} />
-            <figcaption className="mt-1 text-center text-xs text-ink-faint">Outline, north up; not to a map scale</figcaption>
+            <figcaption className="mt-1 text-center text-xs text-ink-faint">
+              Outline, north up; not to a map scale
+            </figcaption>
           </figure>
         ) : null}
       </div>
       <Section
         title="Crop seasons"
-        actions={canEdit ? <ButtonLink size="sm" to={`/seasons/new?growerId=${field.growerId}&fieldId=${field.id}`}>Add crop season</ButtonLink> : null}
+        actions={
+          canEdit ? (
+            <ButtonLink size="sm" to={`/seasons/new?growerId=${field.growerId}&fieldId=${field.id}`}>
+              Add crop season
+            </ButtonLink>
+          ) : null
+        }
       >
         <QueryState query={seasons}>
-          {(data) => <SeasonTable seasons={data} canEdit={canEdit} hiddenColumns={['field', 'farm', 'grower']} />}
+          {(data) => (
+            <SeasonTable seasons={data} canEdit={canEdit} hiddenColumns={['field', 'farm', 'grower']} />
+          )}
         </QueryState>
       </Section>
       <Section

@@ -18,7 +18,13 @@ export function Component() {
       <PageHeader
         title="Fields"
         description="Areas are measured from each field's boundary."
-        actions={canEdit ? <ButtonLink variant="primary" to={withQuery('/fields/new', { growerId, farmId })}>Add field</ButtonLink> : null}
+        actions={
+          canEdit ? (
+            <ButtonLink variant="primary" to={withQuery('/fields/new', { growerId, farmId })}>
+              Add field
+            </ButtonLink>
+          ) : null
+        }
       />
       {filters.bar}
       <QueryState query={fields}>{(data) => <FieldTable fields={data} canEdit={canEdit} />}</QueryState>

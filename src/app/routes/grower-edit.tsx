@@ -15,7 +15,10 @@ export function Component() {
       allowed={canEditRegister(useViewer())}
       query={id ? query : null}
       title={(g) => (g ? `Edit ${g.name}` : 'Add a grower')}
-      crumbs={(g) => [{ label: 'Growers', to: '/growers' }, ...(g ? [{ label: g.name, to: `/growers/${g.id}` }] : [])]}
+      crumbs={(g) => [
+        { label: 'Growers', to: '/growers' },
+        ...(g ? [{ label: g.name, to: `/growers/${g.id}` }] : []),
+      ]}
     >
       {(g) => (
         <GrowerForm

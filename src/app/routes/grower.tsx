@@ -39,30 +39,84 @@ function GrowerPage({ grower }: { grower: Grower }) {
   const hide = ['grower'];
   return (
     <>
-      <RecordHeader resource="growers" record={grower} canEdit={canEdit} crumbs={[{ label: 'Growers', to: '/growers' }]} />
+      <RecordHeader
+        resource="growers"
+        record={grower}
+        canEdit={canEdit}
+        crumbs={[{ label: 'Growers', to: '/growers' }]}
+      />
       <Facts
         columns={4}
         items={[
           { label: 'Contact person', value: grower.contactName ?? '—' },
-          { label: 'E-mail', value: grower.email ? <a className="text-clay-700 underline" href={`mailto:${grower.email}`}>{grower.email}</a> : '—' },
+          {
+            label: 'E-mail',
+            value: grower.email ? (
+              <a className="text-clay-700 underline" href={`mailto:${grower.email}`}>
+                {grower.email}
+              </a>
+            ) : (
+              '—'
+            ),
+          },
           { label: 'Phone', value: grower.phone ?? '—' },
-          { label: 'Farms · fields · planters', value: `${grower.farmCount} · ${grower.fieldCount} · ${grower.planterCount}`, numeric: true },
+          {
+            label: 'Farms · fields · planters',
+            value: `${grower.farmCount} · ${grower.fieldCount} · ${grower.planterCount}`,
+            numeric: true,
+          },
         ]}
       />
-      {grower.notes ? <p className="mt-3 max-w-3xl text-sm whitespace-pre-line text-ink-soft">{grower.notes}</p> : null}
+      {grower.notes ? (
+        <p className="mt-3 max-w-3xl text-sm whitespace-pre-line text-ink-soft">{grower.notes}</p>
+      ) : null}
 
-      <Section title="Farms" actions={canEdit ? <ButtonLink size="sm" to={`/farms/new?growerId=${growerId}`}>Add farm</ButtonLink> : null}>
-        <QueryState query={farms}>{(data) => <FarmTable farms={data} canEdit={canEdit} hiddenColumns={hide} />}</QueryState>
+      <Section
+        title="Farms"
+        actions={
+          canEdit ? (
+            <ButtonLink size="sm" to={`/farms/new?growerId=${growerId}`}>
+              Add farm
+            </ButtonLink>
+          ) : null
+        }
+      >
+        <QueryState query={farms}>
+          {(data) => <FarmTable farms={data} canEdit={canEdit} hiddenColumns={hide} />}
+        </QueryState>
       </Section>
-      <Section title="Fields" actions={canEdit ? <ButtonLink size="sm" to={`/fields/new?growerId=${growerId}`}>Add field</ButtonLink> : null}>
-        <QueryState query={fields}>{(data) => <FieldTable fields={data} canEdit={canEdit} hiddenColumns={hide} />}</QueryState>
+      <Section
+        title="Fields"
+        actions={
+          canEdit ? (
+            <ButtonLink size="sm" to={`/fields/new?growerId=${growerId}`}>
+              Add field
+            </ButtonLink>
+          ) : null
+        }
+      >
+        <QueryState query={fields}>
+          {(data) => <FieldTable fields={data} canEdit={canEdit} hiddenColumns={hide} />}
+        </QueryState>
       </Section>
       <Section
         title="Planters"
-        actions={canEditPlanter(me, growerId) ? <ButtonLink size="sm" to={`/planters/new?growerId=${growerId}`}>Add planter</ButtonLink> : null}
+        actions={
+          canEditPlanter(me, growerId) ? (
+            <ButtonLink size="sm" to={`/planters/new?growerId=${growerId}`}>
+              Add planter
+            </ButtonLink>
+          ) : null
+        }
       >
         <QueryState query={planters}>
-          {(data) => <PlanterTable planters={data} canEdit={(p) => canEditPlanter(me, p.growerId)} hiddenColumns={hide} />}
+          {(data) => (
+            <PlanterTable
+              planters={data}
+              canEdit={(p) => canEditPlanter(me, p.growerId)}
+              hiddenColumns={hide}
+            />
+          )}
         </QueryState>
       </Section>
     </>

@@ -16,8 +16,18 @@ export function Component() {
     <>
       <PageHeader
         title="Growers"
-        description={me.role === 'consultant' ? 'The growers assigned to you.' : 'The farm businesses this practice plans for.'}
-        actions={canEdit ? <ButtonLink variant="primary" to="/growers/new">Add grower</ButtonLink> : null}
+        description={
+          me.role === 'consultant'
+            ? 'The growers assigned to you.'
+            : 'The farm businesses this practice plans for.'
+        }
+        actions={
+          canEdit ? (
+            <ButtonLink variant="primary" to="/growers/new">
+              Add grower
+            </ButtonLink>
+          ) : null
+        }
       />
       {filters.bar}
       <QueryState query={growers}>{(data) => <GrowerTable growers={data} canEdit={canEdit} />}</QueryState>

@@ -29,11 +29,18 @@ export function Component() {
       </Link>
     </Notice>
   ) : (
-    <AcceptInvitationForm token={token} invitation={invitation.data} onAccepted={() => navigate('/', { replace: true })} />
+    <AcceptInvitationForm
+      token={token}
+      invitation={invitation.data}
+      onAccepted={() => navigate('/', { replace: true })}
+    />
   );
 
   return (
-    <AuthLayout title="Join your team on Sowright" intro="Choose a password to finish setting up your account.">
+    <AuthLayout
+      title="Join your team on Sowright"
+      intro="Choose a password to finish setting up your account."
+    >
       {body}
     </AuthLayout>
   );

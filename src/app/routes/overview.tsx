@@ -17,13 +17,15 @@ import { formatNumber } from '@/lib/format';
 import { canEditPlanter, canEditRegister } from '@/lib/permissions';
 import { useUnitSystem, useViewer } from '@/lib/viewer';
 
-export const loader = (qc: QueryClient): LoaderFunction => () => {
-  void qc.prefetchQuery(growersQueryOptions());
-  void qc.prefetchQuery(farmsQueryOptions());
-  void qc.prefetchQuery(fieldsQueryOptions());
-  void qc.prefetchQuery(plantersQueryOptions());
-  return null;
-};
+export const loader =
+  (qc: QueryClient): LoaderFunction =>
+  () => {
+    void qc.prefetchQuery(growersQueryOptions());
+    void qc.prefetchQuery(farmsQueryOptions());
+    void qc.prefetchQuery(fieldsQueryOptions());
+    void qc.prefetchQuery(plantersQueryOptions());
+    return null;
+  };
 
 function Tile({ label, value, to, sub }: { label: string; value: number; to: string; sub?: string }) {
   return (
@@ -33,19 +35,34 @@ function Tile({ label, value, to, sub }: { label: string; value: number; to: str
     >
       <span className="block text-sm text-ink-soft group-hover:text-clay-700">{label}</span>
       <span className="block font-mono text-2xl text-ink tabular-nums">{formatNumber(value)}</span>
-      {sub ? <span className="block font-mono text-xs text-ink-faint">{sub}</span> : <span className="block text-xs">&nbsp;</span>}
+      {sub ? (
+        <span className="block font-mono text-xs text-ink-faint">{sub}</span>
+      ) : (
+        <span className="block text-xs">&nbsp;</span>
+      )}
     </Link>
   );
 }
 
-function ShortList({ items, empty, more }: { items: { id: string; to: string; name: string; note: ReactNode }[]; empty: string; more?: { to: string; label: string } }) {
+function ShortList({
+  items,
+  empty,
+  more,
+}: {
+  items: { id: string; to: string; name: string; note: ReactNode }[];
+  empty: string;
+  more?: { to: string; label: string };
+}) {
   if (items.length === 0) return <p className="text-sm text-ink-faint">{empty}</p>;
   return (
     <div>
       <ul className="divide-y divide-ink-line/70 rounded-card border border-ink-line bg-paper-raised">
         {items.map((i) => (
           <li key={i.id} className="flex items-baseline justify-between gap-3 px-3 py-1.5 text-sm">
-            <Link to={i.to} className="truncate font-medium underline-offset-2 hover:text-clay-700 hover:underline">
+            <Link
+              to={i.to}
+              className="truncate font-medium underline-offset-2 hover:text-clay-700 hover:underline"
+            >
               {i.name}
             </Link>
             <span className="shrink-0 text-ink-soft">{i.note}</span>
@@ -53,7 +70,10 @@ function ShortList({ items, empty, more }: { items: { id: string; to: string; na
         ))}
       </ul>
       {more ? (
-        <Link to={more.to} className="mt-1 inline-block text-sm text-clay-700 underline-offset-2 hover:underline">
+        <Link
+          to={more.to}
+          className="mt-1 inline-block text-sm text-clay-700 underline-offset-2 hover:underline"
+        >
           {more.label}
         </Link>
       ) : null}
@@ -80,7 +100,8 @@ export function Component() {
   }[me.role];
 
   let body: ReactNode;
-  if (failed) body = <ErrorNotice error={failed.error} onRetry={() => queries.forEach((q) => void q.refetch())} />;
+  if (failed)
+    body = <ErrorNotice error={failed.error} onRetry={() => queries.forEach((q) => void q.refetch())} />;
   else if (!growers.data || !farms.data || !fields.data || !planters.data) body = <Loading />;
   else {
     const totalM2 = fields.data.reduce((sum, f) => sum + (f.areaM2 ?? 0), 0);
@@ -89,7 +110,11 @@ export function Component() {
     body = (
       <>
         <div className="grid grid-cols-2 gap-3 lg:grid-cols-4">
-          <Tile label={me.role === 'farmer' ? 'Grower' : 'Growers'} value={growers.data.length} to="/growers" />
+          <Tile
+            label={me.role === 'farmer' ? 'Grower' : 'Growers'}
+            value={growers.data.length}
+            to="/growers"
+          />
           <Tile label="Farms" value={farms.data.length} to="/farms" />
           <Tile
             label="Fields"
@@ -105,20 +130,30 @@ export function Component() {
             <Section title={ownGrower ? ownGrower.name : 'Your grower'}>
               {ownGrower ? (
                 <p className="text-sm text-ink-soft">
-                  {[ownGrower.contactName, ownGrower.email, ownGrower.phone].filter(Boolean).join(' · ') || 'No contact details on file.'}{' '}
-                  <Link to={`/growers/${ownGrower.id}`} className="text-clay-700 underline-offset-2 hover:underline">
+                  {[ownGrower.contactName, ownGrower.email, ownGrower.phone].filter(Boolean).join(' · ') ||
+                    'No contact details on file.'}{' '}
+                  <Link
+                    to={`/growers/${ownGrower.id}`}
+                    className="text-clay-700 underline-offset-2 hover:underline"
+                  >
                     Open
                   </Link>
                 </p>
               ) : (
-                <p className="text-sm text-ink-faint">Your account is not linked to a grower yet. Ask your agronomist.</p>
+                <p className="text-sm text-ink-faint">
+                  Your account is not linked to a grower yet. Ask your agronomist.
+                </p>
               )}
             </Section>
             <Section title="Your fields">
               <FieldTable fields={fields.data} canEdit={false} hiddenColumns={['grower', 'updated']} />
             </Section>
             <Section title="Your planters">
-              <PlanterTable planters={planters.data} canEdit={(p) => canEditPlanter(me, p.growerId)} hiddenColumns={['grower']} />
+              <PlanterTable
+                planters={planters.data}
+                canEdit={(p) => canEditPlanter(me, p.growerId)}
+                hiddenColumns={['grower']}
+              />
             </Section>
           </>
         ) : me.role === 'consultant' ? (
@@ -139,18 +174,34 @@ export function Component() {
                     name: g.name,
                     note: (
                       <span className="font-mono text-xs">
-                        {g.fieldCount} {g.fieldCount === 1 ? 'field' : 'fields'} · {g.planterCount} {g.planterCount === 1 ? 'planter' : 'planters'}
+                        {g.fieldCount} {g.fieldCount === 1 ? 'field' : 'fields'} · {g.planterCount}{' '}
+                        {g.planterCount === 1 ? 'planter' : 'planters'}
                       </span>
                     ),
                   }))}
-                more={growers.data.length > SHORT ? { to: '/growers', label: `All ${growers.data.length} growers` } : undefined}
+                more={
+                  growers.data.length > SHORT
+                    ? { to: '/growers', label: `All ${growers.data.length} growers` }
+                    : undefined
+                }
               />
             </Section>
             <Section title="Fields without a boundary" className="">
               <ShortList
                 empty="Every field has a boundary."
-                items={missing.slice(0, SHORT).map((f) => ({ id: f.id, to: `/fields/${f.id}`, name: f.name, note: `${f.farmName}, ${f.growerName}` }))}
-                more={missing.length > SHORT ? { to: '/fields', label: `All ${missing.length} fields without one` } : undefined}
+                items={missing
+                  .slice(0, SHORT)
+                  .map((f) => ({
+                    id: f.id,
+                    to: `/fields/${f.id}`,
+                    name: f.name,
+                    note: `${f.farmName}, ${f.growerName}`,
+                  }))}
+                more={
+                  missing.length > SHORT
+                    ? { to: '/fields', label: `All ${missing.length} fields without one` }
+                    : undefined
+                }
               />
             </Section>
           </div>

@@ -16,9 +16,15 @@ function PeoplePage() {
       <PageHeader
         title="People"
         description="Who works in this workspace, their role, and which growers farmers and consultants see."
-        actions={<ButtonLink variant="primary" to="/people/invite">Invite someone</ButtonLink>}
+        actions={
+          <ButtonLink variant="primary" to="/people/invite">
+            Invite someone
+          </ButtonLink>
+        }
       />
-      <QueryState query={users}>{(data) => <UserTable users={data} growerName={growers.nameOf} />}</QueryState>
+      <QueryState query={users}>
+        {(data) => <UserTable users={data} growerName={growers.nameOf} />}
+      </QueryState>
     </>
   );
 }

@@ -17,7 +17,11 @@ function InvitePage() {
         title="Invite someone"
         description="They get an e-mail with a link to choose a password. The link works once."
       />
-      {growers.isPending ? <Loading /> : <InviteForm growers={growers.options} cancelTo="/people" onInvited={() => navigate('/people')} />}
+      {growers.isPending ? (
+        <Loading />
+      ) : (
+        <InviteForm growers={growers.options} cancelTo="/people" onInvited={() => navigate('/people')} />
+      )}
     </>
   );
 }

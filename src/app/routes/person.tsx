@@ -22,7 +22,10 @@ function PersonPage({ id }: { id: string }) {
     <QueryState query={users}>
       {(list) => {
         const user = list.find((u) => u.id === id);
-        if (!user) return <EmptyState title="No such person">They may have been removed from this workspace.</EmptyState>;
+        if (!user)
+          return (
+            <EmptyState title="No such person">They may have been removed from this workspace.</EmptyState>
+          );
         return (
           <>
             <PageHeader
@@ -40,7 +43,13 @@ function PersonPage({ id }: { id: string }) {
             {growers.isPending ? (
               <Loading />
             ) : (
-              <UserEditForm key={user.id} user={user} growers={growers.options} cancelTo="/people" onSaved={() => navigate('/people')} />
+              <UserEditForm
+                key={user.id}
+                user={user}
+                growers={growers.options}
+                cancelTo="/people"
+                onSaved={() => navigate('/people')}
+              />
             )}
           </>
         );

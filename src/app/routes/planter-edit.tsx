@@ -17,7 +17,10 @@ export function Component() {
       allowed={(p) => canEditPlanter(me, p?.growerId)}
       query={id ? query : null}
       title={(p) => (p ? `Edit ${p.name}` : 'Add a planter')}
-      crumbs={(p) => [{ label: 'Planters', to: '/planters' }, ...(p ? [{ label: p.name, to: `/planters/${p.id}` }] : [])]}
+      crumbs={(p) => [
+        { label: 'Planters', to: '/planters' },
+        ...(p ? [{ label: p.name, to: `/planters/${p.id}` }] : []),
+      ]}
       description="Row spacing and speeds are in your units; switch units in the left rail."
     >
       {(p) => (

@@ -25,10 +25,15 @@ function PlanterPage({ planter: p }: { planter: Planter }) {
   const canEdit = canEditPlanter(me, p.growerId);
   return (
     <>
-      <RecordHeader resource="planters" record={p} canEdit={canEdit} crumbs={[
+      <RecordHeader
+        resource="planters"
+        record={p}
+        canEdit={canEdit}
+        crumbs={[
           { label: 'Planters', to: '/planters' },
           { label: p.growerName, to: `/growers/${p.growerId}` },
-        ]} />
+        ]}
+      />
       <Section title="Rows and sections">
         <Facts
           columns={4}
@@ -42,7 +47,11 @@ function PlanterPage({ planter: p }: { planter: Planter }) {
                   ? `Split-row, ${p.interplantRowCount} interplant rows`
                   : ARRANGEMENT_LABELS[p.arrangement],
             },
-            { label: `Sections (display controls ${p.displaySectionLimit})`, value: formatNumber(p.sectionCount), numeric: true },
+            {
+              label: `Sections (display controls ${p.displaySectionLimit})`,
+              value: formatNumber(p.sectionCount),
+              numeric: true,
+            },
           ]}
         />
         <div className="mt-2">
@@ -55,8 +64,12 @@ function PlanterPage({ planter: p }: { planter: Planter }) {
             <caption className="sr-only">Holes per disc by crop</caption>
             <thead>
               <tr className="border-b border-ink-line bg-paper-sunk/60 text-xs text-ink-soft">
-                <th scope="col" className="px-3 py-1.5 text-left font-medium">Crop</th>
-                <th scope="col" className="px-3 py-1.5 text-right font-medium">Holes per disc</th>
+                <th scope="col" className="px-3 py-1.5 text-left font-medium">
+                  Crop
+                </th>
+                <th scope="col" className="px-3 py-1.5 text-right font-medium">
+                  Holes per disc
+                </th>
               </tr>
             </thead>
             <tbody>
@@ -91,8 +104,8 @@ function PlanterPage({ planter: p }: { planter: Planter }) {
         />
         {p.groundSpeedSource === 'wheel' ? (
           <p className="mt-2 text-sm text-ink-soft">
-            A wheel sensor reads high when the wheel slips, and the meter then sows more than the target; GNSS measures
-            true speed over the ground.
+            A wheel sensor reads high when the wheel slips, and the meter then sows more than the target; GNSS
+            measures true speed over the ground.
           </p>
         ) : null}
       </Section>

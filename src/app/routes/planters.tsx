@@ -18,10 +18,18 @@ export function Component() {
       <PageHeader
         title="Planters"
         description="Machine profiles: rows, sections, seed discs and the speeds the grower plants at."
-        actions={canEditPlanter(me) ? <ButtonLink variant="primary" to={withQuery('/planters/new', { growerId })}>Add planter</ButtonLink> : null}
+        actions={
+          canEditPlanter(me) ? (
+            <ButtonLink variant="primary" to={withQuery('/planters/new', { growerId })}>
+              Add planter
+            </ButtonLink>
+          ) : null
+        }
       />
       {filters.bar}
-      <QueryState query={planters}>{(data) => <PlanterTable planters={data} canEdit={(p) => canEditPlanter(me, p.growerId)} />}</QueryState>
+      <QueryState query={planters}>
+        {(data) => <PlanterTable planters={data} canEdit={(p) => canEditPlanter(me, p.growerId)} />}
+      </QueryState>
     </>
   );
 }

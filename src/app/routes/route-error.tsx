@@ -10,11 +10,17 @@ export function RouteError() {
     : error instanceof Error
       ? error.message
       : 'Something went wrong.';
-  const stale = error instanceof Error && /dynamically imported module|Importing a module script failed/i.test(error.message);
+  const stale =
+    error instanceof Error &&
+    /dynamically imported module|Importing a module script failed/i.test(error.message);
   return (
     <div className="mx-auto max-w-xl py-10">
       <Notice tone="danger" title="This page could not be shown">
-        <p>{stale ? 'Sowright was updated while this tab was open. Reload the page to get the new version.' : message}</p>
+        <p>
+          {stale
+            ? 'Sowright was updated while this tab was open. Reload the page to get the new version.'
+            : message}
+        </p>
         <div className="mt-3 flex gap-2">
           <button type="button" className="underline" onClick={() => window.location.reload()}>
             Reload

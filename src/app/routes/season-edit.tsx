@@ -16,7 +16,10 @@ export function Component() {
       allowed={canEditRegister(useViewer())}
       query={id ? query : null}
       title={(s) => (s ? `Edit the ${s.year} season on ${s.fieldName}` : 'Add a crop season')}
-      crumbs={(s) => [{ label: 'Crop seasons', to: '/seasons' }, ...(s ? [{ label: s.fieldName, to: `/fields/${s.fieldId}` }] : [])]}
+      crumbs={(s) => [
+        { label: 'Crop seasons', to: '/seasons' },
+        ...(s ? [{ label: s.fieldName, to: `/fields/${s.fieldId}` }] : []),
+      ]}
     >
       {(s) => (
         <SeasonForm

@@ -18,7 +18,13 @@ export function Component() {
       <PageHeader
         title="Crop seasons"
         description="What is planted in each field, year by year."
-        actions={canEdit ? <ButtonLink variant="primary" to={withQuery('/seasons/new', { growerId, fieldId })}>Add crop season</ButtonLink> : null}
+        actions={
+          canEdit ? (
+            <ButtonLink variant="primary" to={withQuery('/seasons/new', { growerId, fieldId })}>
+              Add crop season
+            </ButtonLink>
+          ) : null
+        }
       />
       {filters.bar}
       <QueryState query={seasons}>{(data) => <SeasonTable seasons={data} canEdit={canEdit} />}</QueryState>

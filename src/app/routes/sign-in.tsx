@@ -5,7 +5,8 @@ import { useMe } from '@/features/auth/api/get-me';
 import { SignInForm } from '@/features/auth/components/sign-in-form';
 
 /** Only paths inside this app: never another site (`//host`) or a scheme. */
-export const safeNext = (next: string | null) => (next && next.startsWith('/') && !next.startsWith('//') ? next : '/');
+export const safeNext = (next: string | null) =>
+  next && next.startsWith('/') && !next.startsWith('//') ? next : '/';
 
 export function Component() {
   const [search] = useSearchParams();

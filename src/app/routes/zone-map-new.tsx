@@ -48,21 +48,33 @@ function NewZoneMap({ field, initialSeasonId }: { field: Field; initialSeasonId:
   const [search, setSearch] = useSearchParams();
   const how = (HOW.find((h) => h.value === search.get('how'))?.value ?? 'default') as How;
   const seasons = useSeasons({ fieldId: field.id });
-  const options = (seasons.data ?? []).map((s) => ({ id: s.id, label: `${s.year} ${CROP_LABELS[s.crop].toLowerCase()}` }));
-  const [chosenBasics, setBasics] = useState<ZoneMapBasics>({ seasonId: initialSeasonId, name: 'Management zones' });
+  const options = (seasons.data ?? []).map((s) => ({
+    id: s.id,
+    label: `${s.year} ${CROP_LABELS[s.crop].toLowerCase()}`,
+  }));
+  const [chosenBasics, setBasics] = useState<ZoneMapBasics>({
+    seasonId: initialSeasonId,
+    name: 'Management zones',
+  });
   // A field with one crop season: that one, unless the user chose otherwise.
-  const basics = { ...chosenBasics, seasonId: chosenBasics.seasonId || (options.length === 1 ? options[0].id : '') };
+  const basics = {
+    ...chosenBasics,
+    seasonId: chosenBasics.seasonId || (options.length === 1 ? options[0].id : ''),
+  };
   const [preview, setPreview] = useState<ImportPreview | null>(null);
   const [chosen, setChosen] = useState<number[]>([]);
   const created = (m: ZoneMap) => navigate(`/zone-maps/${m.id}`);
   const switchTo = (v: How) => {
     setPreview(null);
     setChosen([]);
-    setSearch((prev) => {
-      const next = new URLSearchParams(prev);
-      next.set('how', v);
-      return next;
-    }, { replace: true });
+    setSearch(
+      (prev) => {
+        const next = new URLSearchParams(prev);
+        next.set('how', v);
+        return next;
+      },
+      { replace: true },
+    );
   };
 
   const header = (
@@ -80,7 +92,14 @@ function NewZoneMap({ field, initialSeasonId }: { field: Field; initialSeasonId:
     return (
       <>
         {header}
-        <EmptyState title="This field has no boundary yet" action={<ButtonLink variant="primary" to={`/fields/${field.id}/boundary`}>Bring in a boundary</ButtonLink>}>
+        <EmptyState
+          title="This field has no boundary yet"
+          action={
+            <ButtonLink variant="primary" to={`/fields/${field.id}/boundary`}>
+              Bring in a boundary
+            </ButtonLink>
+          }
+        >
           Zones are drawn inside the boundary, so the field needs one first.
         </EmptyState>
       </>
@@ -93,7 +112,10 @@ function NewZoneMap({ field, initialSeasonId }: { field: Field; initialSeasonId:
         <ZoneMapBasicsFields seasons={options} value={basics} onChange={setBasics} />
         {seasons.isSuccess && options.length === 0 ? (
           <p className="mt-2 text-sm">
-            <Link className="text-clay-700 underline" to={`/seasons/new?growerId=${field.growerId}&fieldId=${field.id}`}>
+            <Link
+              className="text-clay-700 underline"
+              to={`/seasons/new?growerId=${field.growerId}&fieldId=${field.id}`}
+            >
               Add a crop season to {field.name}
             </Link>
           </p>
@@ -102,7 +124,9 @@ function NewZoneMap({ field, initialSeasonId }: { field: Field; initialSeasonId:
       <Section title="How to make the zones">
         <Segmented<How> label="How to make the zones" value={how} options={HOW} onChange={switchTo} />
         <div className="mt-4 space-y-5">
-          {how === 'default' ? <CreateDefaultZoneMap fieldId={field.id} basics={basics} onCreated={created} /> : null}
+          {how === 'default' ? (
+            <CreateDefaultZoneMap fieldId={field.id} basics={basics} onCreated={created} />
+          ) : null}
           {how === 'file' ? (
             <>
               <ImportStep
@@ -121,8 +145,21 @@ function NewZoneMap({ field, initialSeasonId }: { field: Field; initialSeasonId:
               ) : null}
               {preview && preview.features.length > 0 ? (
                 <>
-                  <FeaturePicker preview={preview} system={system} chosen={chosen} onChange={setChosen} context={field.boundary} />
-                  <ZonesFromImportForm preview={preview} chosen={chosen} fieldId={field.id} fieldAreaM2={field.areaM2} basics={basics} onCreated={created} />
+                  <FeaturePicker
+                    preview={preview}
+                    system={system}
+                    chosen={chosen}
+                    onChange={setChosen}
+                    context={field.boundary}
+                  />
+                  <ZonesFromImportForm
+                    preview={preview}
+                    chosen={chosen}
+                    fieldId={field.id}
+                    fieldAreaM2={field.areaM2}
+                    basics={basics}
+                    onCreated={created}
+                  />
                 </>
               ) : null}
             </>
@@ -131,7 +168,14 @@ function NewZoneMap({ field, initialSeasonId }: { field: Field; initialSeasonId:
             <>
               <ImportStep purpose="points" fieldId={field.id} preview={preview} onReady={setPreview} />
               {preview ? (
-                <ZonesFromDataForm preview={preview} fieldId={field.id} basics={basics} boundary={field.boundary} system={system} onCreated={created} />
+                <ZonesFromDataForm
+                  preview={preview}
+                  fieldId={field.id}
+                  basics={basics}
+                  boundary={field.boundary}
+                  system={system}
+                  onCreated={created}
+                />
               ) : null}
             </>
           ) : null}
@@ -153,5 +197,9 @@ export function Component() {
       </EmptyState>
     );
   }
-  return <QueryState query={field}>{(f) => <NewZoneMap field={f} initialSeasonId={search.get('seasonId') ?? ''} />}</QueryState>;
+  return (
+    <QueryState query={field}>
+      {(f) => <NewZoneMap field={f} initialSeasonId={search.get('seasonId') ?? ''} />}
+    </QueryState>
+  );
 }

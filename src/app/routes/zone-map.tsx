@@ -31,11 +31,19 @@ function Versions({ map }: { map: ZoneMap }) {
       Versions for this season:
       {versions.map((v) =>
         v.id === map.id ? (
-          <span key={v.id} aria-current="page" className="rounded-sm border border-clay-300 bg-clay-50 px-1.5 font-mono text-clay-700">
+          <span
+            key={v.id}
+            aria-current="page"
+            className="rounded-sm border border-clay-300 bg-clay-50 px-1.5 font-mono text-clay-700"
+          >
             v{v.versionNo}
           </span>
         ) : (
-          <Link key={v.id} to={`/zone-maps/${v.id}`} className="rounded-sm px-1.5 font-mono underline-offset-2 hover:text-clay-700 hover:underline">
+          <Link
+            key={v.id}
+            to={`/zone-maps/${v.id}`}
+            className="rounded-sm px-1.5 font-mono underline-offset-2 hover:text-clay-700 hover:underline"
+          >
             v{v.versionNo}
           </Link>
         ),
@@ -81,7 +89,12 @@ function ZoneMapPage({ map }: { map: ZoneMap }) {
               Export shapefile
             </a>
             {canEdit ? (
-              <Button busy={copy.isPending} onClick={() => copy.mutate({ id: map.id }, { onSuccess: (m) => navigate(`/zone-maps/${m.id}`) })}>
+              <Button
+                busy={copy.isPending}
+                onClick={() =>
+                  copy.mutate({ id: map.id }, { onSuccess: (m) => navigate(`/zone-maps/${m.id}`) })
+                }
+              >
                 New version
               </Button>
             ) : null}

@@ -27,7 +27,11 @@ export function Component() {
         {(items) => (
           <ZoneMapTable
             items={items}
-            empty={canEdit ? 'Open a field and choose "New zone map" to make one.' : 'None has been made for your fields yet.'}
+            empty={
+              canEdit
+                ? 'Open a field and choose "New zone map" to make one.'
+                : 'None has been made for your fields yet.'
+            }
           />
         )}
       </QueryState>

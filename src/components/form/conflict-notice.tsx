@@ -14,9 +14,13 @@ type ConflictState =
   | { kind: 'reloaded'; differences: Difference[] };
 
 const show = (v: unknown): string => {
-  if (v === null || v === undefined || v === '' || (typeof v === 'number' && Number.isNaN(v))) return '(empty)';
+  if (v === null || v === undefined || v === '' || (typeof v === 'number' && Number.isNaN(v)))
+    return '(empty)';
   if (Array.isArray(v)) return v.map(show).join(', ') || '(none)';
-  if (typeof v === 'object') return Object.values(v as Record<string, unknown>).map(show).join(' ');
+  if (typeof v === 'object')
+    return Object.values(v as Record<string, unknown>)
+      .map(show)
+      .join(' ');
   return String(v);
 };
 
@@ -27,7 +31,11 @@ const show = (v: unknown): string => {
  */
 export function useConflictRecovery<T extends FieldValues, C, O>(
   form: UseFormReturn<T, C, O>,
-  opts: { reload: () => Promise<T>; labels: Partial<Record<string, string>>; format?: (key: string, value: unknown) => string },
+  opts: {
+    reload: () => Promise<T>;
+    labels: Partial<Record<string, string>>;
+    format?: (key: string, value: unknown) => string;
+  },
 ) {
   const [state, setState] = useState<ConflictState>({ kind: 'none' });
 
@@ -50,8 +58,15 @@ export function useConflictRecovery<T extends FieldValues, C, O>(
   };
 
   const putBack = (d: Difference) => {
-    form.setValue(d.key as Path<T>, d.typed as PathValue<T, Path<T>>, { shouldDirty: true, shouldValidate: true });
-    setState((s) => (s.kind === 'reloaded' ? { kind: 'reloaded', differences: s.differences.filter((x) => x.key !== d.key) } : s));
+    form.setValue(d.key as Path<T>, d.typed as PathValue<T, Path<T>>, {
+      shouldDirty: true,
+      shouldValidate: true,
+    });
+    setState((s) =>
+      s.kind === 'reloaded'
+        ? { kind: 'reloaded', differences: s.differences.filter((x) => x.key !== d.key) }
+        : s,
+    );
   };
 
   const fmt = (key: string, v: unknown) => opts.format?.(key, v) ?? show(v);
@@ -66,7 +81,10 @@ export function useConflictRecovery<T extends FieldValues, C, O>(
             <p>What you had typed is kept below. Put back the entries you want, then save again.</p>
             <ul className="mt-2 divide-y divide-ink-line rounded-card border border-ink-line bg-paper-raised">
               {state.differences.map((d) => (
-                <li key={d.key} className="flex flex-wrap items-center justify-between gap-2 px-3 py-1.5 text-ink">
+                <li
+                  key={d.key}
+                  className="flex flex-wrap items-center justify-between gap-2 px-3 py-1.5 text-ink"
+                >
                   <span>
                     <span className="font-medium">{d.label}</span>: you typed{' '}
                     <span className="font-mono">{fmt(d.key, d.typed)}</span>; saved now{' '}
@@ -84,11 +102,17 @@ export function useConflictRecovery<T extends FieldValues, C, O>(
     ) : (
       <Notice tone="caution" title="Someone else changed this record">
         <p>
-          It was saved by another person after you opened it, so your changes were not saved. Load their version:
-          what you typed stays listed here so you can put it back.
+          It was saved by another person after you opened it, so your changes were not saved. Load their
+          version: what you typed stays listed here so you can put it back.
         </p>
         {state.kind === 'failed' ? <p className="mt-1 text-danger">{state.message}</p> : null}
-        <Button className="mt-2" size="sm" variant="primary" busy={state.kind === 'loading'} onClick={() => void reload()}>
+        <Button
+          className="mt-2"
+          size="sm"
+          variant="primary"
+          busy={state.kind === 'loading'}
+          onClick={() => void reload()}
+        >
           Load the latest version
         </Button>
       </Notice>

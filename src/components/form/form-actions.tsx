@@ -18,7 +18,11 @@ export function FormActions({
 }) {
   return (
     <div className="space-y-3 border-t border-ink-line pt-4">
-      {error ? <Notice tone="danger" title="Not saved">{error}</Notice> : null}
+      {error ? (
+        <Notice tone="danger" title="Not saved">
+          {error}
+        </Notice>
+      ) : null}
       <div className="flex flex-wrap items-center gap-2">
         <Button type="submit" variant="primary" busy={busy}>
           {submitLabel}
@@ -31,7 +35,15 @@ export function FormActions({
 }
 
 /** A titled group of inputs inside a form. */
-export function FormSection({ title, description, children }: { title: string; description?: ReactNode; children: ReactNode }) {
+export function FormSection({
+  title,
+  description,
+  children,
+}: {
+  title: string;
+  description?: ReactNode;
+  children: ReactNode;
+}) {
   return (
     <fieldset className="space-y-3 rounded-card border border-ink-line bg-paper-raised px-4 pt-2 pb-4">
       <legend className="px-1 text-sm font-semibold text-ink">{title}</legend>

@@ -10,7 +10,10 @@ import { useConflictRecovery } from './conflict-notice';
  * about particular fields and goes beside them instead.
  */
 export const isStaleVersion = (error: unknown) =>
-  isApiError(error) && error.status === 409 && (error.code === 'stale' || error.code === 'conflict') && error.details.length === 0;
+  isApiError(error) &&
+  error.status === 409 &&
+  (error.code === 'stale' || error.code === 'conflict') &&
+  error.details.length === 0;
 
 /**
  * Everything a record form does when a save fails: a stale version (409 `conflict`) offers to load the

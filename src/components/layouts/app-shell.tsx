@@ -30,7 +30,9 @@ export function AppShell({
       >
         Skip to the page
       </a>
-      {busy ? <div className="fixed inset-x-0 top-0 z-40 h-0.5 animate-pulse bg-clay-500" aria-hidden /> : null}
+      {busy ? (
+        <div className="fixed inset-x-0 top-0 z-40 h-0.5 animate-pulse bg-clay-500" aria-hidden />
+      ) : null}
       <aside className="flex shrink-0 flex-col border-b border-ink-line bg-paper-sunk md:sticky md:top-0 md:h-screen md:w-rail md:border-r md:border-b-0">
         <div className="px-4 pt-4 pb-3">
           <Brand />
@@ -38,7 +40,11 @@ export function AppShell({
         <nav aria-label="Main" className="flex-1 overflow-y-auto px-2 pb-3">
           {nav.map((group, gi) => (
             <div key={group.label ?? gi} className={gi > 0 ? 'mt-4' : ''}>
-              {group.label ? <p className="px-2 pb-1 text-xs font-medium tracking-wide text-ink-faint uppercase">{group.label}</p> : null}
+              {group.label ? (
+                <p className="px-2 pb-1 text-xs font-medium tracking-wide text-ink-faint uppercase">
+                  {group.label}
+                </p>
+              ) : null}
               <ul className="flex flex-wrap gap-0.5 md:block md:space-y-0.5">
                 {group.items.map((item) => (
                   <li key={item.to}>

@@ -8,7 +8,11 @@ import { hatchImage, mapStyle } from './map-style';
 import type { MapFrameProps } from './map-types';
 
 const collection = (features: Feature[]): FeatureCollection => ({ type: 'FeatureCollection', features });
-const feature = (geometry: Geometry, properties: Record<string, unknown> = {}): Feature => ({ type: 'Feature', properties, geometry });
+const feature = (geometry: Geometry, properties: Record<string, unknown> = {}): Feature => ({
+  type: 'Feature',
+  properties,
+  geometry,
+});
 
 function positionsOf(g: Geometry): Position[] {
   switch (g.type) {
@@ -51,8 +55,26 @@ function rules(b: Bbox): FeatureCollection {
   const [cx, cy] = [(b[0] + b[2]) / 2, (b[1] + b[3]) / 2];
   const [w, s, e, n] = [cx - span, cy - span, cx + span, cy + span];
   const lines: Feature[] = [];
-  for (let x = Math.ceil(w / step) * step; x <= e; x += step) lines.push(feature({ type: 'LineString', coordinates: [[x, s], [x, n]] }));
-  for (let y = Math.ceil(s / step) * step; y <= n; y += step) lines.push(feature({ type: 'LineString', coordinates: [[w, y], [e, y]] }));
+  for (let x = Math.ceil(w / step) * step; x <= e; x += step)
+    lines.push(
+      feature({
+        type: 'LineString',
+        coordinates: [
+          [x, s],
+          [x, n],
+        ],
+      }),
+    );
+  for (let y = Math.ceil(s / step) * step; y <= n; y += step)
+    lines.push(
+      feature({
+        type: 'LineString',
+        coordinates: [
+          [w, y],
+          [e, y],
+        ],
+      }),
+    );
   return collection(lines);
 }
 
@@ -62,7 +84,20 @@ function rules(b: Bbox): FeatureCollection {
  * (west,south,east,north of the view), so a browser test can place the pointer on a known place.
  */
 export default function MapCanvas(props: MapFrameProps) {
-  const { label, unitSystem, boundary, areas, lines, markers, points, selectedIds, draw, legend, fitKey, className = 'h-[460px]' } = props;
+  const {
+    label,
+    unitSystem,
+    boundary,
+    areas,
+    lines,
+    markers,
+    points,
+    selectedIds,
+    draw,
+    legend,
+    fitKey,
+    className = 'h-[460px]',
+  } = props;
   const container = useRef<HTMLDivElement>(null);
   const mapRef = useRef<MaplibreMap | null>(null);
   const scaleRef = useRef<maplibregl.ScaleControl | null>(null);
@@ -133,7 +168,10 @@ export default function MapCanvas(props: MapFrameProps) {
     map.on('click', 'areas-fill', (e) => {
       if (drawingRef.current) return;
       const id = e.features?.[0]?.properties?.id as string | undefined;
-      if (id) latest.current.onAreaClick?.(id, { add: e.originalEvent.shiftKey || e.originalEvent.metaKey || e.originalEvent.ctrlKey });
+      if (id)
+        latest.current.onAreaClick?.(id, {
+          add: e.originalEvent.shiftKey || e.originalEvent.metaKey || e.originalEvent.ctrlKey,
+        });
     });
     return () => {
       drawRef.current?.stop();
@@ -153,12 +191,28 @@ export default function MapCanvas(props: MapFrameProps) {
   useEffect(() => {
     const map = mapRef.current;
     if (!ready || !map) return;
-    const set = (id: string, fc: FeatureCollection) => (map.getSource(id) as GeoJSONSource | undefined)?.setData(fc);
+    const set = (id: string, fc: FeatureCollection) =>
+      (map.getSource(id) as GeoJSONSource | undefined)?.setData(fc);
     set('boundary', collection(boundary ? [feature(boundary)] : []));
-    set('areas', collection((areas ?? []).map((a) => feature(a.geometry, { id: a.id, colour: a.colour, style: a.style }))));
+    set(
+      'areas',
+      collection(
+        (areas ?? []).map((a) => feature(a.geometry, { id: a.id, colour: a.colour, style: a.style })),
+      ),
+    );
     set('lines', collection((lines ?? []).map((l) => feature(l.geometry, { id: l.id, style: l.style }))));
-    set('markers', collection((markers ?? []).map((m) => feature({ type: 'Point', coordinates: m.position }, { id: m.id }))));
-    set('points', collection((points ?? []).map((p) => feature({ type: 'Point', coordinates: p.position }, { colour: p.colour }))));
+    set(
+      'markers',
+      collection(
+        (markers ?? []).map((m) => feature({ type: 'Point', coordinates: m.position }, { id: m.id })),
+      ),
+    );
+    set(
+      'points',
+      collection(
+        (points ?? []).map((p) => feature({ type: 'Point', coordinates: p.position }, { colour: p.colour })),
+      ),
+    );
   }, [ready, boundary, areas, lines, markers, points]);
 
   useEffect(() => {
@@ -173,12 +227,21 @@ export default function MapCanvas(props: MapFrameProps) {
     const p = latest.current;
     if (!map) return;
     // The field and everything drawn on it: a file's features may lie beside the field, or elsewhere.
-    const shapes: Geometry[] = [...(p.boundary ? [p.boundary] : []), ...(p.areas ?? []).map((a) => a.geometry)];
+    const shapes: Geometry[] = [
+      ...(p.boundary ? [p.boundary] : []),
+      ...(p.areas ?? []).map((a) => a.geometry),
+    ];
     const positions = shapes.flatMap(positionsOf).concat((p.points ?? []).map((pt) => pt.position));
     const b = bboxOf(positions);
     if (!b) return;
     (map.getSource('rules') as GeoJSONSource | undefined)?.setData(rules(b));
-    map.fitBounds([[b[0], b[1]], [b[2], b[3]]] as LngLatBoundsLike, { padding: 36, animate: false, maxZoom: 18 });
+    map.fitBounds(
+      [
+        [b[0], b[1]],
+        [b[2], b[3]],
+      ] as LngLatBoundsLike,
+      { padding: 36, animate: false, maxZoom: 18 },
+    );
   };
   const fitRef = useRef(fit);
   fitRef.current = fit;
@@ -196,7 +259,10 @@ export default function MapCanvas(props: MapFrameProps) {
     if (!request) return;
     setHover(null);
     if (request.mode === 'edit') {
-      session.start({ ...request, onChange: (g) => (latest.current.draw as typeof request | null)?.onChange(g) });
+      session.start({
+        ...request,
+        onChange: (g) => (latest.current.draw as typeof request | null)?.onChange(g),
+      });
     } else {
       session.start({
         ...request,
@@ -209,9 +275,15 @@ export default function MapCanvas(props: MapFrameProps) {
   const hoverText = hover && !drawing ? props.describeArea?.(hover.id) : null;
 
   return (
-    <div className={`sowright-map relative overflow-hidden rounded-card border border-ink-line ${className}`} role="region" aria-label={label}>
+    <div
+      className={`sowright-map relative overflow-hidden rounded-card border border-ink-line ${className}`}
+      role="region"
+      aria-label={label}
+    >
       <div ref={container} className="h-full w-full" data-testid="map" />
-      {ready ? null : <p className="absolute inset-0 grid place-items-center text-sm text-ink-soft">Drawing the map…</p>}
+      {ready ? null : (
+        <p className="absolute inset-0 grid place-items-center text-sm text-ink-soft">Drawing the map…</p>
+      )}
       <button
         type="button"
         onClick={() => fitRef.current()}
@@ -227,10 +299,18 @@ export default function MapCanvas(props: MapFrameProps) {
                 ? 'Click to place corners; click the first corner again, or press Finish.'
                 : 'Click to place points along the line; click the last point again, or press Finish.')}
           </span>
-          <button type="button" className="cursor-pointer rounded-sm border border-clay-700 bg-clay-600 px-2 py-0.5 font-medium text-paper-raised" onClick={() => drawRef.current?.finish()}>
+          <button
+            type="button"
+            className="cursor-pointer rounded-sm border border-clay-700 bg-clay-600 px-2 py-0.5 font-medium text-paper-raised"
+            onClick={() => drawRef.current?.finish()}
+          >
             Finish
           </button>
-          <button type="button" className="cursor-pointer rounded-sm border border-ink-line bg-paper-raised px-2 py-0.5" onClick={() => draw.onCancel()}>
+          <button
+            type="button"
+            className="cursor-pointer rounded-sm border border-ink-line bg-paper-raised px-2 py-0.5"
+            onClick={() => draw.onCancel()}
+          >
             Cancel
           </button>
         </div>

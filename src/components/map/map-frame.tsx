@@ -5,7 +5,10 @@ import type { MapFrameProps } from './map-types';
 const MapCanvas = lazy(() => import('./map-canvas'));
 
 /** Says so when the map could not start (no WebGL, or its code could not be loaded) instead of a blank box. */
-class MapErrorBoundary extends Component<{ children: ReactNode; className: string }, { error: Error | null }> {
+class MapErrorBoundary extends Component<
+  { children: ReactNode; className: string },
+  { error: Error | null }
+> {
   state = { error: null as Error | null };
   static getDerivedStateFromError(error: Error) {
     return { error };
@@ -13,8 +16,12 @@ class MapErrorBoundary extends Component<{ children: ReactNode; className: strin
   render() {
     if (!this.state.error) return this.props.children;
     return (
-      <div role="alert" className={`grid place-items-center rounded-card border border-danger/40 bg-danger-soft p-4 text-sm text-ink ${this.props.className}`}>
-        The map could not be drawn here ({this.state.error.message}). The tables below still hold every figure.
+      <div
+        role="alert"
+        className={`grid place-items-center rounded-card border border-danger/40 bg-danger-soft p-4 text-sm text-ink ${this.props.className}`}
+      >
+        The map could not be drawn here ({this.state.error.message}). The tables below still hold every
+        figure.
       </div>
     );
   }
@@ -27,7 +34,9 @@ export function MapFrame(props: MapFrameProps) {
     <MapErrorBoundary className={cls}>
       <Suspense
         fallback={
-          <div className={`grid place-items-center rounded-card border border-ink-line bg-paper-sunk text-sm text-ink-soft ${cls}`}>
+          <div
+            className={`grid place-items-center rounded-card border border-ink-line bg-paper-sunk text-sm text-ink-soft ${cls}`}
+          >
             Loading the map…
           </div>
         }

@@ -19,14 +19,27 @@ export const INK = {
 
 export const SOURCES = ['rules', 'boundary', 'areas', 'lines', 'markers', 'points'] as const;
 
-const empty = { type: 'geojson' as const, data: { type: 'FeatureCollection' as const, features: [] }, promoteId: 'id' };
+const empty = {
+  type: 'geojson' as const,
+  data: { type: 'FeatureCollection' as const, features: [] },
+  promoteId: 'id',
+};
 
-const byStyle = (style: string | string[]) => ['in', ['get', 'style'], ['literal', Array.isArray(style) ? style : [style]]];
+const byStyle = (style: string | string[]) => [
+  'in',
+  ['get', 'style'],
+  ['literal', Array.isArray(style) ? style : [style]],
+];
 
 const layers: LayerSpecification[] = [
   { id: 'paper', type: 'background', paint: { 'background-color': INK.paper } },
   { id: 'rules', type: 'line', source: 'rules', paint: { 'line-color': INK.rule, 'line-width': 1 } },
-  { id: 'boundary-fill', type: 'fill', source: 'boundary', paint: { 'fill-color': INK.line, 'fill-opacity': 0.7 } },
+  {
+    id: 'boundary-fill',
+    type: 'fill',
+    source: 'boundary',
+    paint: { 'fill-color': INK.line, 'fill-opacity': 0.7 },
+  },
   {
     id: 'areas-fill',
     type: 'fill',
@@ -48,7 +61,13 @@ const layers: LayerSpecification[] = [
       ],
     },
   },
-  { id: 'areas-hatch', type: 'fill', source: 'areas', filter: byStyle('invalid') as never, paint: { 'fill-pattern': 'hatch' } },
+  {
+    id: 'areas-hatch',
+    type: 'fill',
+    source: 'areas',
+    filter: byStyle('invalid') as never,
+    paint: { 'fill-pattern': 'hatch' },
+  },
   {
     id: 'areas-edge',
     type: 'line',
@@ -87,7 +106,12 @@ const layers: LayerSpecification[] = [
     filter: ['in', ['get', 'id'], ['literal', []]],
     paint: { 'line-color': INK.accent, 'line-width': 3.5 },
   },
-  { id: 'boundary-line', type: 'line', source: 'boundary', paint: { 'line-color': INK.ink, 'line-width': 2.25 } },
+  {
+    id: 'boundary-line',
+    type: 'line',
+    source: 'boundary',
+    paint: { 'line-color': INK.ink, 'line-width': 2.25 },
+  },
   {
     id: 'lines-repair',
     type: 'line',
@@ -120,19 +144,35 @@ const layers: LayerSpecification[] = [
     id: 'points',
     type: 'circle',
     source: 'points',
-    paint: { 'circle-color': ['get', 'colour'], 'circle-radius': 2.5, 'circle-stroke-color': INK.ink, 'circle-stroke-width': 0.25 },
+    paint: {
+      'circle-color': ['get', 'colour'],
+      'circle-radius': 2.5,
+      'circle-stroke-color': INK.ink,
+      'circle-stroke-width': 0.25,
+    },
   },
   {
     id: 'markers-halo',
     type: 'circle',
     source: 'markers',
-    paint: { 'circle-radius': 11, 'circle-color': INK.cautionFill, 'circle-opacity': 0.45, 'circle-stroke-color': INK.caution, 'circle-stroke-width': 1 },
+    paint: {
+      'circle-radius': 11,
+      'circle-color': INK.cautionFill,
+      'circle-opacity': 0.45,
+      'circle-stroke-color': INK.caution,
+      'circle-stroke-width': 1,
+    },
   },
   {
     id: 'markers',
     type: 'circle',
     source: 'markers',
-    paint: { 'circle-radius': 4, 'circle-color': INK.caution, 'circle-stroke-color': INK.line, 'circle-stroke-width': 1.5 },
+    paint: {
+      'circle-radius': 4,
+      'circle-color': INK.caution,
+      'circle-stroke-color': INK.line,
+      'circle-stroke-width': 1.5,
+    },
   },
 ];
 

@@ -14,7 +14,11 @@ export type AreaStyle = 'zone' | 'candidate' | 'chosen' | 'invalid' | 'muted';
 export type MapArea = { id: string; geometry: AreaGeometry; colour: string; style: AreaStyle };
 
 /** Outlines drawn over the areas: a repaired outline, an overlap between two zones, a draft. */
-export type MapLine = { id: string; geometry: AreaGeometry | LineString; style: 'repair' | 'overlap' | 'draft' };
+export type MapLine = {
+  id: string;
+  geometry: AreaGeometry | LineString;
+  style: 'repair' | 'overlap' | 'draft';
+};
 
 /** A marked place, e.g. where a ring crosses itself. */
 export type MapMarker = { id: string; position: [number, number] };

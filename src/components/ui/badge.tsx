@@ -13,7 +13,9 @@ const tones: Record<Tone, string> = {
 /** A short state word in a small box. The word carries the meaning; the colour only repeats it. */
 export function Badge({ tone = 'neutral', children }: { tone?: Tone; children: ReactNode }) {
   return (
-    <span className={`inline-flex items-center rounded-sm border px-1.5 py-px text-xs font-medium ${tones[tone]}`}>
+    <span
+      className={`inline-flex items-center rounded-sm border px-1.5 py-px text-xs font-medium ${tones[tone]}`}
+    >
       {children}
     </span>
   );

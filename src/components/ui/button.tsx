@@ -17,18 +17,47 @@ const sizes: Record<Size, string> = { sm: 'h-7 px-2.5 text-sm', md: 'h-9 px-3.5 
 export const buttonClass = (variant: Variant = 'secondary', size: Size = 'md', extra = '') =>
   `${base} ${variants[variant]} ${sizes[size]} ${extra}`;
 
-type ButtonProps = ButtonHTMLAttributes<HTMLButtonElement> & { variant?: Variant; size?: Size; busy?: boolean };
+type ButtonProps = ButtonHTMLAttributes<HTMLButtonElement> & {
+  variant?: Variant;
+  size?: Size;
+  busy?: boolean;
+};
 
-export function Button({ variant, size, busy, className = '', type = 'button', disabled, children, ...rest }: ButtonProps) {
+export function Button({
+  variant,
+  size,
+  busy,
+  className = '',
+  type = 'button',
+  disabled,
+  children,
+  ...rest
+}: ButtonProps) {
   return (
-    <button type={type} className={buttonClass(variant, size, className)} disabled={disabled || busy} aria-busy={busy || undefined} {...rest}>
-      {busy ? <span className="size-3 animate-spin rounded-full border-2 border-current border-t-transparent" aria-hidden /> : null}
+    <button
+      type={type}
+      className={buttonClass(variant, size, className)}
+      disabled={disabled || busy}
+      aria-busy={busy || undefined}
+      {...rest}
+    >
+      {busy ? (
+        <span
+          className="size-3 animate-spin rounded-full border-2 border-current border-t-transparent"
+          aria-hidden
+        />
+      ) : null}
       {children}
     </button>
   );
 }
 
 /** A link that looks like a button: for navigation, never for actions. */
-export function ButtonLink({ variant, size, className = '', ...rest }: LinkProps & { variant?: Variant; size?: Size }) {
+export function ButtonLink({
+  variant,
+  size,
+  className = '',
+  ...rest
+}: LinkProps & { variant?: Variant; size?: Size }) {
   return <Link className={buttonClass(variant, size, className)} {...rest} />;
 }

@@ -66,12 +66,22 @@ export function DataTable<T>({
                 const meta = header.column.columnDef.meta;
                 const sorted = header.column.getIsSorted();
                 const canSort = header.column.getCanSort();
-                const content = header.isPlaceholder ? null : flexRender(header.column.columnDef.header, header.getContext());
+                const content = header.isPlaceholder
+                  ? null
+                  : flexRender(header.column.columnDef.header, header.getContext());
                 return (
                   <th
                     key={header.id}
                     scope="col"
-                    aria-sort={sorted === 'asc' ? 'ascending' : sorted === 'desc' ? 'descending' : canSort ? 'none' : undefined}
+                    aria-sort={
+                      sorted === 'asc'
+                        ? 'ascending'
+                        : sorted === 'desc'
+                          ? 'descending'
+                          : canSort
+                            ? 'none'
+                            : undefined
+                    }
                     className={`px-3 py-1.5 text-xs font-medium text-ink-soft ${meta?.numeric ? 'text-right' : 'text-left'} ${meta?.shrink ? 'w-px whitespace-nowrap' : ''}`}
                   >
                     {canSort ? (
@@ -81,7 +91,10 @@ export function DataTable<T>({
                         className={`inline-flex cursor-pointer items-center gap-1 rounded-sm hover:text-ink ${meta?.numeric ? 'flex-row-reverse' : ''} ${sorted ? 'text-ink' : ''}`}
                       >
                         {content}
-                        <span className={`text-[0.6rem] ${sorted ? 'text-clay-600' : 'text-ink-line'}`} aria-hidden>
+                        <span
+                          className={`text-[0.6rem] ${sorted ? 'text-clay-600' : 'text-ink-line'}`}
+                          aria-hidden
+                        >
                           {sorted ? sortMark[sorted] : '▲'}
                         </span>
                       </button>
@@ -96,7 +109,10 @@ export function DataTable<T>({
         </thead>
         <tbody>
           {table.getRowModel().rows.map((row) => (
-            <tr key={row.id} className={`border-b border-ink-line/70 last:border-b-0 hover:bg-paper ${rowClassName?.(row.original) ?? ''}`}>
+            <tr
+              key={row.id}
+              className={`border-b border-ink-line/70 last:border-b-0 hover:bg-paper ${rowClassName?.(row.original) ?? ''}`}
+            >
               {row.getVisibleCells().map((cell) => {
                 const meta = cell.column.columnDef.meta;
                 return (

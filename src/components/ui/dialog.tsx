@@ -54,7 +54,9 @@ export function Dialog({
             </Button>
           </div>
           <div className="overflow-auto px-5 py-4 text-base">{children}</div>
-          {footer ? <div className="flex justify-end gap-2 border-t border-ink-line px-5 py-3">{footer}</div> : null}
+          {footer ? (
+            <div className="flex justify-end gap-2 border-t border-ink-line px-5 py-3">{footer}</div>
+          ) : null}
         </div>
       ) : null}
     </dialog>

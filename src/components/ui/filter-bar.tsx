@@ -29,11 +29,29 @@ export function FilterSelect({
 }) {
   return (
     <FormField label={label} className="w-56">
-      <Select value={value} onChange={(e) => onChange(e.target.value)} placeholder={allLabel} options={recordOptions(options)} />
+      <Select
+        value={value}
+        onChange={(e) => onChange(e.target.value)}
+        placeholder={allLabel}
+        options={recordOptions(options)}
+      />
     </FormField>
   );
 }
 
-export function ShowArchivedToggle({ checked, onChange }: { checked: boolean; onChange: (checked: boolean) => void }) {
-  return <Checkbox className="h-9" label="Show archived" checked={checked} onChange={(e) => onChange(e.target.checked)} />;
+export function ShowArchivedToggle({
+  checked,
+  onChange,
+}: {
+  checked: boolean;
+  onChange: (checked: boolean) => void;
+}) {
+  return (
+    <Checkbox
+      className="h-9"
+      label="Show archived"
+      checked={checked}
+      onChange={(e) => onChange(e.target.checked)}
+    />
+  );
 }

@@ -4,7 +4,11 @@ type Control = { id: string; describedBy?: string; invalid: boolean };
 const FieldContext = createContext<Control | null>(null);
 
 /** The id and ARIA wiring of the control inside the nearest FormField, for Input, Select and Textarea. */
-export function useFieldControl(props: { id?: string; 'aria-describedby'?: string; 'aria-invalid'?: unknown }) {
+export function useFieldControl(props: {
+  id?: string;
+  'aria-describedby'?: string;
+  'aria-invalid'?: unknown;
+}) {
   const ctx = useContext(FieldContext);
   return {
     id: props.id ?? ctx?.id,

@@ -61,7 +61,10 @@ export function Select({ className = '', children, options, placeholder, ...rest
   );
 }
 
-type CheckboxProps = Omit<InputHTMLAttributes<HTMLInputElement>, 'type'> & { label: string; ref?: Ref<HTMLInputElement> };
+type CheckboxProps = Omit<InputHTMLAttributes<HTMLInputElement>, 'type'> & {
+  label: string;
+  ref?: Ref<HTMLInputElement>;
+};
 
 /** A checkbox with its own label beside it. */
 export function Checkbox({ label, className = '', ...rest }: CheckboxProps) {

@@ -1,7 +1,10 @@
 export function Loading({ label = 'Loading…' }: { label?: string }) {
   return (
     <div role="status" className="flex items-center gap-2 py-6 text-sm text-ink-soft">
-      <span className="size-3.5 animate-spin rounded-full border-2 border-ink-faint border-t-transparent" aria-hidden />
+      <span
+        className="size-3.5 animate-spin rounded-full border-2 border-ink-faint border-t-transparent"
+        aria-hidden
+      />
       {label}
     </div>
   );

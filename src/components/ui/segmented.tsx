@@ -11,7 +11,11 @@ export function Segmented<K extends string>({
   onChange: (value: K) => void;
 }) {
   return (
-    <div role="radiogroup" aria-label={label} className="inline-flex rounded-card border border-ink-line bg-paper-sunk p-0.5">
+    <div
+      role="radiogroup"
+      aria-label={label}
+      className="inline-flex rounded-card border border-ink-line bg-paper-sunk p-0.5"
+    >
       {options.map((o) => (
         <button
           key={o.value}

@@ -10,6 +10,11 @@ export const getInvitation = async (token: string) =>
   invitationSchema.parse(await api.get(`/api/auth/invitation/${encodeURIComponent(token)}`));
 
 export const invitationQueryOptions = (token: string) =>
-  queryOptions({ queryKey: authKeys.invitation(token), queryFn: () => getInvitation(token), staleTime: Infinity });
+  queryOptions({
+    queryKey: authKeys.invitation(token),
+    queryFn: () => getInvitation(token),
+    staleTime: Infinity,
+  });
 
-export const useInvitation = (token: string) => useQuery({ ...invitationQueryOptions(token), enabled: token.length > 0 });
+export const useInvitation = (token: string) =>
+  useQuery({ ...invitationQueryOptions(token), enabled: token.length > 0 });

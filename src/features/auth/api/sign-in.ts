@@ -4,7 +4,8 @@ import { api } from '@/lib/api-client';
 import { authKeys } from './get-me';
 
 /** POST /api/auth/sign-in: sets the session cookie and answers `me`. 401 `invalid_credentials`; 429 with Retry-After. */
-export const signIn = async (input: SignInInput) => meSchema.parse(await api.post('/api/auth/sign-in', input));
+export const signIn = async (input: SignInInput) =>
+  meSchema.parse(await api.post('/api/auth/sign-in', input));
 
 export function useSignIn() {
   const qc = useQueryClient();

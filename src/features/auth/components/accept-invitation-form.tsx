@@ -35,7 +35,10 @@ export function AcceptInvitationForm({
     setMessage(null);
     accept.mutate(
       { token: t, name, password },
-      { onSuccess: onAccepted, onError: (e) => setMessage(applyApiError(e, form.setError, ['name', 'password'])) },
+      {
+        onSuccess: onAccepted,
+        onError: (e) => setMessage(applyApiError(e, form.setError, ['name', 'password'])),
+      },
     );
   });
 

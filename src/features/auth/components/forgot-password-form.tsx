@@ -21,8 +21,8 @@ export function ForgotPasswordForm() {
   if (sentTo) {
     return (
       <Notice tone="ok" title="Check your e-mail">
-        If an account exists for <span className="font-medium text-ink">{sentTo}</span>, a link to choose a new
-        password is on its way. The link works once and expires soon.
+        If an account exists for <span className="font-medium text-ink">{sentTo}</span>, a link to choose a
+        new password is on its way. The link works once and expires soon.
       </Notice>
     );
   }

@@ -3,12 +3,13 @@ import { FormField } from '@/components/ui/form-field';
 import { Input } from '@/components/ui/input';
 
 /** The check that a new password was typed the same twice, for `.refine` on a form schema. */
-export const passwordsAgree: [(v: { password: string; confirm: string }) => boolean, { path: string[]; message: string }] = [
-  (v) => v.password === v.confirm,
-  { path: ['confirm'], message: 'The two passwords differ' },
-];
+export const passwordsAgree: [
+  (v: { password: string; confirm: string }) => boolean,
+  { path: string[]; message: string },
+] = [(v) => v.password === v.confirm, { path: ['confirm'], message: 'The two passwords differ' }];
 
-export const PASSWORD_HINT = 'At least 8 characters. A few unrelated words make a strong one; very common passwords are refused.';
+export const PASSWORD_HINT =
+  'At least 8 characters. A few unrelated words make a strong one; very common passwords are refused.';
 
 /** A new password typed twice. */
 export function NewPasswordFields({

@@ -14,7 +14,10 @@ import { NewPasswordFields, passwordsAgree } from './new-password-fields';
 const schema = tokenPasswordSchema.extend({ confirm: z.string() }).refine(...passwordsAgree);
 
 export function ResetPasswordForm({ token }: { token: string }) {
-  const form = useForm({ resolver: zodResolver(schema), defaultValues: { token, password: '', confirm: '' } });
+  const form = useForm({
+    resolver: zodResolver(schema),
+    defaultValues: { token, password: '', confirm: '' },
+  });
   const reset = useResetPassword();
   const [message, setMessage] = useState<string | null>(null);
   const [done, setDone] = useState(false);

@@ -23,7 +23,9 @@ export function UnitSystemSwitch({
   const shown = update.isPending && update.variables ? update.variables.unitSystem : value;
   return (
     <fieldset>
-      <legend className={compact ? 'mb-1 text-xs text-ink-faint' : 'mb-1.5 text-sm font-medium'}>{legend}</legend>
+      <legend className={compact ? 'mb-1 text-xs text-ink-faint' : 'mb-1.5 text-sm font-medium'}>
+        {legend}
+      </legend>
       <div className="inline-flex rounded-card border border-ink-line bg-paper-raised p-0.5">
         {OPTIONS.map((o) => (
           <label

@@ -24,7 +24,9 @@ export function useSetBoundary() {
     onSuccess: async (field) => {
       qc.setQueryData(fieldKeys.detail(field.id), field);
       // Register lists carry the field's area (farms and growers sum it); zone maps carry its boundary.
-      await Promise.all(['fields', 'farms', 'growers', 'zone-maps'].map((k) => qc.invalidateQueries({ queryKey: [k] })));
+      await Promise.all(
+        ['fields', 'farms', 'growers', 'zone-maps'].map((k) => qc.invalidateQueries({ queryKey: [k] })),
+      );
     },
   });
 }

@@ -103,7 +103,11 @@ export function BoundaryDrawer({
             }}
             disabled={mode === 'drawing'}
           >
-            {mode === 'editing' ? 'Done moving corners' : draft ? 'Move corners of the new outline' : 'Move corners of the boundary on file'}
+            {mode === 'editing'
+              ? 'Done moving corners'
+              : draft
+                ? 'Move corners of the new outline'
+                : 'Move corners of the boundary on file'}
           </Button>
         ) : null}
       </div>
@@ -111,7 +115,11 @@ export function BoundaryDrawer({
         label={`Boundary of ${field.name}`}
         unitSystem={system}
         boundary={mode === 'editing' ? null : field.boundary}
-        areas={draft && mode !== 'editing' ? [{ id: 'draft', geometry: draft, colour: '#b8582f', style: 'chosen' }] : []}
+        areas={
+          draft && mode !== 'editing'
+            ? [{ id: 'draft', geometry: draft, colour: '#b8582f', style: 'chosen' }]
+            : []
+        }
         draw={draw}
         fitKey={field.id}
         className="h-[520px]"
@@ -119,7 +127,9 @@ export function BoundaryDrawer({
           <MapLegend
             title="Boundary"
             entries={[
-              ...(field.boundary ? [{ key: 'on-file', colour: INK.ink, outline: 'ink' as const, label: 'On file' }] : []),
+              ...(field.boundary
+                ? [{ key: 'on-file', colour: INK.ink, outline: 'ink' as const, label: 'On file' }]
+                : []),
               { key: 'draft', colour: '#b8582f', label: 'New outline, not saved' },
             ]}
           />
@@ -127,14 +137,16 @@ export function BoundaryDrawer({
       />
       {stale ? (
         <Notice tone="caution" title="Someone else changed this field">
-          It was saved by another person after you opened it, so your outline was not saved. The latest field is loaded; your outline is
-          kept here: save it again if it is still right.
+          It was saved by another person after you opened it, so your outline was not saved. The latest field
+          is loaded; your outline is kept here: save it again if it is still right.
         </Notice>
       ) : null}
       {invalid ? (
         <Notice tone="caution" title="This outline is not a valid polygon">
           <ProblemList error={invalid} />
-          <p className="mt-1">Nothing was saved. Move the corners to fix it, or see what the repair would store.</p>
+          <p className="mt-1">
+            Nothing was saved. Move the corners to fix it, or see what the repair would store.
+          </p>
           {draft ? (
             <Button className="mt-2" size="sm" onClick={() => onInvalid(draft)}>
               See the repair
@@ -147,7 +159,12 @@ export function BoundaryDrawer({
         </Notice>
       ) : null}
       <div className="flex flex-wrap gap-2">
-        <Button variant="primary" disabled={!draft || mode === 'drawing'} busy={save.isPending} onClick={submit}>
+        <Button
+          variant="primary"
+          disabled={!draft || mode === 'drawing'}
+          busy={save.isPending}
+          onClick={submit}
+        >
           Save this outline
         </Button>
         {draft ? (

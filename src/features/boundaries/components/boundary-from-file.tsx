@@ -44,7 +44,15 @@ export function BoundaryFromFile({
   const submit = () => {
     setStale(false);
     save.mutate(
-      { fieldId: field.id, input: { importId: preview.id, featureIndexes: chosen, repair: invalid.length > 0 && accepted, version: field.version } },
+      {
+        fieldId: field.id,
+        input: {
+          importId: preview.id,
+          featureIndexes: chosen,
+          repair: invalid.length > 0 && accepted,
+          version: field.version,
+        },
+      },
       {
         onSuccess: onSaved,
         onError: (e) => {
@@ -67,16 +75,26 @@ export function BoundaryFromFile({
             {picked.length === 1 ? 'One feature' : `${picked.length} features`} chosen,{' '}
             <span className="font-mono font-medium">{formatArea(areaM2, system)}</span>
             {picked.length > 1 ? ' together (where they overlap, the overlap counts once when saved)' : ''}.
-            {field.areaM2 != null ? <> This replaces the boundary on file ({formatArea(field.areaM2, system)}).</> : null}
+            {field.areaM2 != null ? (
+              <> This replaces the boundary on file ({formatArea(field.areaM2, system)}).</>
+            ) : null}
           </>
         )}
       </p>
       {invalid.length ? (
-        <Notice tone="caution" title={invalid.length === 1 ? 'A chosen feature is not a valid polygon' : 'Chosen features are not valid polygons'}>
+        <Notice
+          tone="caution"
+          title={
+            invalid.length === 1
+              ? 'A chosen feature is not a valid polygon'
+              : 'Chosen features are not valid polygons'
+          }
+        >
           <ul className="space-y-1">
             {invalid.map((f) => (
               <li key={f.index}>
-                <span className="font-medium text-ink">Feature {f.index + 1}</span>: {reasonWords(f.validity.reason)}
+                <span className="font-medium text-ink">Feature {f.index + 1}</span>:{' '}
+                {reasonWords(f.validity.reason)}
                 {f.validity.location ? ` at ${placeWords(f.validity.location)}` : ''}.{' '}
                 {f.repair
                   ? `The repaired outline (dashed on the map) changes the area by ${areaChangeWords(f.repair.areaM2 - f.areaM2, system)}.`
@@ -85,14 +103,19 @@ export function BoundaryFromFile({
             ))}
           </ul>
           {unrepairable.length === 0 ? (
-            <Checkbox className="mt-2" label="Accept the repair" checked={accepted} onChange={(e) => setAccepted(e.target.checked)} />
+            <Checkbox
+              className="mt-2"
+              label="Accept the repair"
+              checked={accepted}
+              onChange={(e) => setAccepted(e.target.checked)}
+            />
           ) : null}
         </Notice>
       ) : null}
       {stale ? (
         <Notice tone="caution" title="Someone else changed this field">
-          It was saved by another person after you opened it, so the boundary was not saved. The latest field is loaded: check it and save
-          again.
+          It was saved by another person after you opened it, so the boundary was not saved. The latest field
+          is loaded: check it and save again.
         </Notice>
       ) : null}
       {save.isError && !stale ? (

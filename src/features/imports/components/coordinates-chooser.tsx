@@ -14,7 +14,13 @@ const OTHER = 'other';
  * A file in metres with no .prj: Sowright never guesses the coordinate system, it asks, offering the
  * likely ones the server found (UTM zones about the field) and any EPSG code.
  */
-export function CoordinatesChooser({ preview, onChosen }: { preview: ImportPreview; onChosen: (p: ImportPreview) => void }) {
+export function CoordinatesChooser({
+  preview,
+  onChosen,
+}: {
+  preview: ImportPreview;
+  onChosen: (p: ImportPreview) => void;
+}) {
   const coords = preview.coordinates;
   const candidates = coords.kind === 'projected' ? coords.candidates : [];
   const [choice, setChoice] = useState(candidates[0]?.code ?? OTHER);
@@ -38,22 +44,36 @@ export function CoordinatesChooser({ preview, onChosen }: { preview: ImportPrevi
   return (
     <Notice tone="caution" title="Which coordinate system is this file in?">
       <p>
-        Its positions are in metres, not longitude and latitude (x {formatNumber(x0)} to {formatNumber(x1)}, y {formatNumber(y0)} to{' '}
-        {formatNumber(y1)}), and it carries no coordinate system (no .prj). Sowright does not guess: choose the one it was made in. If
-        you are not sure, ask whoever made the file.
+        Its positions are in metres, not longitude and latitude (x {formatNumber(x0)} to {formatNumber(x1)}, y{' '}
+        {formatNumber(y0)} to {formatNumber(y1)}), and it carries no coordinate system (no .prj). Sowright
+        does not guess: choose the one it was made in. If you are not sure, ask whoever made the file.
       </p>
       <fieldset className="mt-2 space-y-1 text-ink">
         <legend className="sr-only">Coordinate system</legend>
         {candidates.map((c) => (
           <label key={c.code} className="flex items-center gap-2">
-            <input type="radio" name="crs" value={c.code} checked={choice === c.code} onChange={() => setChoice(c.code)} className="accent-clay-600" />
+            <input
+              type="radio"
+              name="crs"
+              value={c.code}
+              checked={choice === c.code}
+              onChange={() => setChoice(c.code)}
+              className="accent-clay-600"
+            />
             <span>
               {c.label} <span className="font-mono text-ink-soft">{c.code}</span>
             </span>
           </label>
         ))}
         <label className="flex items-center gap-2">
-          <input type="radio" name="crs" value={OTHER} checked={choice === OTHER} onChange={() => setChoice(OTHER)} className="accent-clay-600" />
+          <input
+            type="radio"
+            name="crs"
+            value={OTHER}
+            checked={choice === OTHER}
+            onChange={() => setChoice(OTHER)}
+            className="accent-clay-600"
+          />
           <span>Another EPSG code</span>
         </label>
       </fieldset>

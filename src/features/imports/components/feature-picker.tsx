@@ -40,25 +40,42 @@ export function FeaturePicker({
       preview.features.map((f) => ({
         id: String(f.index),
         geometry: f.geometry,
-        colour: f.validity.valid ? (chosen.includes(f.index) ? COLOUR.chosen : COLOUR.candidate) : COLOUR.invalid,
+        colour: f.validity.valid
+          ? chosen.includes(f.index)
+            ? COLOUR.chosen
+            : COLOUR.candidate
+          : COLOUR.invalid,
         style: f.validity.valid ? (chosen.includes(f.index) ? 'chosen' : 'candidate') : 'invalid',
       })),
     [preview, chosen],
   );
   const lines = useMemo<MapLine[]>(
-    () => preview.features.flatMap((f) => (f.repair ? [{ id: `repair-${f.index}`, geometry: f.repair.geometry, style: 'repair' as const }] : [])),
+    () =>
+      preview.features.flatMap((f) =>
+        f.repair ? [{ id: `repair-${f.index}`, geometry: f.repair.geometry, style: 'repair' as const }] : [],
+      ),
     [preview],
   );
   const markers = useMemo<MapMarker[]>(
     () =>
       preview.features.flatMap((f) =>
-        f.validity.location && f.validity.location.length >= 2 ? [{ id: `at-${f.index}`, position: [f.validity.location[0], f.validity.location[1]] as [number, number] }] : [],
+        f.validity.location && f.validity.location.length >= 2
+          ? [
+              {
+                id: `at-${f.index}`,
+                position: [f.validity.location[0], f.validity.location[1]] as [number, number],
+              },
+            ]
+          : [],
       ),
     [preview],
   );
   const toggle = (index: number) => {
     if (single) onChange(chosen.includes(index) ? [] : [index]);
-    else onChange(chosen.includes(index) ? chosen.filter((i) => i !== index) : [...chosen, index].sort((a, b) => a - b));
+    else
+      onChange(
+        chosen.includes(index) ? chosen.filter((i) => i !== index) : [...chosen, index].sort((a, b) => a - b),
+      );
   };
   const anyInvalid = preview.features.some((f) => !f.validity.valid);
 
@@ -87,17 +104,26 @@ export function FeaturePicker({
               ...(anyInvalid
                 ? [
                     { key: 'invalid', colour: INK.caution, hatch: true, label: 'Not a valid polygon' },
-                    { key: 'repair', colour: INK.repair, outline: 'dashed' as const, label: 'Repaired outline' },
+                    {
+                      key: 'repair',
+                      colour: INK.repair,
+                      outline: 'dashed' as const,
+                      label: 'Repaired outline',
+                    },
                   ]
                 : []),
-              ...(context ? [{ key: 'boundary', colour: INK.ink, outline: 'ink' as const, label: 'Field boundary now' }] : []),
+              ...(context
+                ? [{ key: 'boundary', colour: INK.ink, outline: 'ink' as const, label: 'Field boundary now' }]
+                : []),
             ]}
             note="Click a feature to choose it."
           />
         }
       />
       <fieldset className="min-w-0">
-        <legend className="mb-1 text-sm font-medium text-ink">{single ? 'Choose the feature' : 'Choose the features'}</legend>
+        <legend className="mb-1 text-sm font-medium text-ink">
+          {single ? 'Choose the feature' : 'Choose the features'}
+        </legend>
         <ul className="max-h-[460px] divide-y divide-ink-line overflow-y-auto rounded-card border border-ink-line bg-paper-raised">
           {preview.features.map((f) => (
             <li key={f.index} className={`px-3 py-2 text-sm ${chosen.includes(f.index) ? 'bg-clay-50' : ''}`}>
@@ -130,7 +156,11 @@ function FeatureWords({ f, system }: { f: PreviewFeature; system: UnitSystem }) 
       </span>
       {f.layer ? <span className="block text-xs text-ink-soft">Layer {f.layer}</span> : null}
       <span className="mt-0.5 flex flex-wrap items-center gap-1.5">
-        {f.validity.valid ? <Badge tone="ok">Valid</Badge> : <Badge tone="caution">Not valid: {reasonWords(f.validity.reason)}</Badge>}
+        {f.validity.valid ? (
+          <Badge tone="ok">Valid</Badge>
+        ) : (
+          <Badge tone="caution">Not valid: {reasonWords(f.validity.reason)}</Badge>
+        )}
         {f.geometry.coordinates.length > 1 ? <Badge>{f.geometry.coordinates.length} parts</Badge> : null}
       </span>
       {!f.validity.valid ? (

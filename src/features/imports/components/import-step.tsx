@@ -6,9 +6,18 @@ import { CoordinatesChooser } from './coordinates-chooser';
 import { ProblemList } from '@/components/form/problem-list';
 
 const ACCEPT: Record<ImportPurpose, { accept: string; words: string }> = {
-  boundary: { accept: '.geojson,.json,.zip,.kml,.kmz', words: 'GeoJSON (.geojson or .json), a zipped shapefile (.zip), KML or KMZ' },
-  zones: { accept: '.geojson,.json,.zip,.kml,.kmz', words: 'GeoJSON (.geojson or .json), a zipped shapefile (.zip), KML or KMZ' },
-  points: { accept: '.csv,.geojson,.json,.zip', words: 'CSV with longitude and latitude columns, GeoJSON points, or a zipped shapefile of points' },
+  boundary: {
+    accept: '.geojson,.json,.zip,.kml,.kmz',
+    words: 'GeoJSON (.geojson or .json), a zipped shapefile (.zip), KML or KMZ',
+  },
+  zones: {
+    accept: '.geojson,.json,.zip,.kml,.kmz',
+    words: 'GeoJSON (.geojson or .json), a zipped shapefile (.zip), KML or KMZ',
+  },
+  points: {
+    accept: '.csv,.geojson,.json,.zip',
+    words: 'CSV with longitude and latitude columns, GeoJSON points, or a zipped shapefile of points',
+  },
 };
 
 const FORMAT_WORDS: Record<ImportPreview['format'], string> = {
@@ -76,7 +85,10 @@ export function ImportStep({
         </div>
         {upload.isPending ? (
           <p role="status" className="flex items-center gap-2 pb-5 text-sm text-ink-soft">
-            <span className="size-3.5 animate-spin rounded-full border-2 border-ink-faint border-t-transparent" aria-hidden />
+            <span
+              className="size-3.5 animate-spin rounded-full border-2 border-ink-faint border-t-transparent"
+              aria-hidden
+            />
             Reading the file…
           </p>
         ) : null}
@@ -90,7 +102,9 @@ export function ImportStep({
       {shown ? (
         <p className="text-sm text-ink-soft">
           Read <span className="font-medium text-ink">{shown.fileName}</span> as {FORMAT_WORDS[shown.format]}
-          {shown.layers.length > 1 ? `, ${shown.layers.length} layers (${shown.layers.map((l) => `${l.name}: ${l.featureCount}`).join(', ')})` : ''}
+          {shown.layers.length > 1
+            ? `, ${shown.layers.length} layers (${shown.layers.map((l) => `${l.name}: ${l.featureCount}`).join(', ')})`
+            : ''}
           {pending
             ? '; its positions need their coordinate system first'
             : shown.pointCount != null

@@ -7,7 +7,8 @@ import { invalidatePeople } from './keys';
 export type InviteUserInput = z.output<typeof inviteUserSchema>;
 
 /** POST /api/users (admin): creates the person as invited and e-mails them a link. */
-export const inviteUser = async (input: InviteUserInput) => userSchema.parse(await api.post('/api/users', input));
+export const inviteUser = async (input: InviteUserInput) =>
+  userSchema.parse(await api.post('/api/users', input));
 
 export function useInviteUser() {
   const qc = useQueryClient();

@@ -6,4 +6,7 @@ export const mailKeys = resourceKeys('mail');
 
 /** Inviting or changing people sends mail, so both prefixes reload. */
 export const invalidatePeople = (qc: QueryClient) =>
-  Promise.all([qc.invalidateQueries({ queryKey: userKeys.all }), qc.invalidateQueries({ queryKey: mailKeys.all })]);
+  Promise.all([
+    qc.invalidateQueries({ queryKey: userKeys.all }),
+    qc.invalidateQueries({ queryKey: mailKeys.all }),
+  ]);

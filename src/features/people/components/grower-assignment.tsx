@@ -30,7 +30,11 @@ export function GrowerAssignment<T extends AssignmentValues>({
         control={c}
         name="growerId"
         render={({ field }) => (
-          <FormField label="Grower" error={e.growerId?.message} hint="A farmer sees this grower's fields, planters and prescriptions only.">
+          <FormField
+            label="Grower"
+            error={e.growerId?.message}
+            hint="A farmer sees this grower's fields, planters and prescriptions only."
+          >
             <Select
               value={field.value ?? ''}
               onChange={(ev) => field.onChange(ev.target.value || null)}
@@ -79,18 +83,28 @@ export function GrowerAssignment<T extends AssignmentValues>({
                   ))}
                 </div>
               )}
-              {e.growerIds?.message ? <p className="mt-1 text-xs font-medium text-danger">{e.growerIds.message}</p> : null}
+              {e.growerIds?.message ? (
+                <p className="mt-1 text-xs font-medium text-danger">{e.growerIds.message}</p>
+              ) : null}
             </fieldset>
           );
         }}
       />
     );
   }
-  return <p className="text-sm text-ink-soft">{role === 'admin' ? 'An admin' : 'An agronomist'} sees every grower of the workspace.</p>;
+  return (
+    <p className="text-sm text-ink-soft">
+      {role === 'admin' ? 'An admin' : 'An agronomist'} sees every grower of the workspace.
+    </p>
+  );
 }
 
 /** Keeps only the assignment that fits the role before sending. */
-export function assignmentFor(role: Role, growerId: string | null | undefined, growerIds: string[] | undefined) {
+export function assignmentFor(
+  role: Role,
+  growerId: string | null | undefined,
+  growerIds: string[] | undefined,
+) {
   if (role === 'farmer') return { growerId: growerId ?? null, growerIds: [] };
   if (role === 'consultant') return { growerId: null, growerIds: growerIds ?? [] };
   return { growerId: null, growerIds: [] };

@@ -14,7 +14,15 @@ type Values = z.input<typeof inviteUserSchema>;
 const LABELS = { name: 'Name', email: 'E-mail', role: 'Role', growerId: 'Grower', growerIds: 'Growers' };
 
 /** Invites a person by e-mail with one role. */
-export function InviteForm({ growers, onInvited, cancelTo }: { growers: GrowerOption[]; onInvited: (u: User) => void; cancelTo: string }) {
+export function InviteForm({
+  growers,
+  onInvited,
+  cancelTo,
+}: {
+  growers: GrowerOption[];
+  onInvited: (u: User) => void;
+  cancelTo: string;
+}) {
   const form = useForm<Values, unknown, z.output<typeof inviteUserSchema>>({
     resolver: zodResolver(inviteUserSchema),
     defaultValues: { name: '', email: '', role: 'agronomist', growerId: null, growerIds: [] },
@@ -26,7 +34,10 @@ export function InviteForm({ growers, onInvited, cancelTo }: { growers: GrowerOp
 
   const onSubmit = form.handleSubmit((v) => {
     save.begin();
-    invite.mutate({ ...v, ...assignmentFor(v.role, v.growerId, v.growerIds) }, { onSuccess: onInvited, onError: save.onError });
+    invite.mutate(
+      { ...v, ...assignmentFor(v.role, v.growerId, v.growerIds) },
+      { onSuccess: onInvited, onError: save.onError },
+    );
   });
 
   return (
@@ -43,7 +54,12 @@ export function InviteForm({ growers, onInvited, cancelTo }: { growers: GrowerOp
         <Select {...form.register('role')} options={labelled(ROLES, ROLE_LABELS)} />
       </FormField>
       <GrowerAssignment role={role} control={form.control} errors={errors} growers={growers} />
-      <FormActions submitLabel="Send invitation" busy={invite.isPending} cancelTo={cancelTo} error={save.formError} />
+      <FormActions
+        submitLabel="Send invitation"
+        busy={invite.isPending}
+        cancelTo={cancelTo}
+        error={save.formError}
+      />
     </form>
   );
 }

@@ -12,7 +12,11 @@ function LinkedText({ text }: { text: string }) {
     <pre className="font-sans text-sm leading-relaxed break-words whitespace-pre-wrap text-ink">
       {parts.map((part, i) =>
         i % 2 === 1 ? (
-          <a key={i} href={part} className="break-all text-clay-700 underline underline-offset-2 hover:text-clay-600">
+          <a
+            key={i}
+            href={part}
+            className="break-all text-clay-700 underline underline-offset-2 hover:text-clay-600"
+          >
             {part}
           </a>
         ) : (
@@ -27,13 +31,20 @@ function LinkedText({ text }: { text: string }) {
 export function MailOutbox({ messages }: { messages: MailMessage[] }) {
   const [chosenId, setChosenId] = useState<string | null>(null);
   if (messages.length === 0) {
-    return <EmptyState title="No messages yet">Invitations and password links sent from this workspace appear here.</EmptyState>;
+    return (
+      <EmptyState title="No messages yet">
+        Invitations and password links sent from this workspace appear here.
+      </EmptyState>
+    );
   }
   const sorted = [...messages].sort((a, b) => b.receivedAt.localeCompare(a.receivedAt));
   const chosen = sorted.find((m) => m.id === chosenId) ?? sorted[0];
   return (
     <div className="grid gap-4 lg:grid-cols-[minmax(0,22rem)_1fr]">
-      <ul aria-label="Messages" className="self-start divide-y divide-ink-line overflow-hidden rounded-card border border-ink-line bg-paper-raised">
+      <ul
+        aria-label="Messages"
+        className="self-start divide-y divide-ink-line overflow-hidden rounded-card border border-ink-line bg-paper-raised"
+      >
         {sorted.map((m) => {
           const active = m.id === chosen.id;
           return (

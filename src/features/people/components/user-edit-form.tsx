@@ -28,7 +28,17 @@ const toValues = (u: User): Values => ({
 });
 
 /** Changes a person's name, role, status and growers. Your own role and status are not offered. */
-export function UserEditForm({ user, growers, onSaved, cancelTo }: { user: User; growers: GrowerOption[]; onSaved: () => void; cancelTo: string }) {
+export function UserEditForm({
+  user,
+  growers,
+  onSaved,
+  cancelTo,
+}: {
+  user: User;
+  growers: GrowerOption[];
+  onSaved: () => void;
+  cancelTo: string;
+}) {
   const me = useViewer();
   const self = me.id === user.id;
   const qc = useQueryClient();
@@ -57,7 +67,10 @@ export function UserEditForm({ user, growers, onSaved, cancelTo }: { user: User;
 
   const onSubmit = form.handleSubmit((v) => {
     save.begin();
-    update.mutate({ id: user.id, input: { ...v, ...assignmentFor(v.role, v.growerId, v.growerIds) } }, { onSuccess: onSaved, onError: save.onError });
+    update.mutate(
+      { id: user.id, input: { ...v, ...assignmentFor(v.role, v.growerId, v.growerIds) } },
+      { onSuccess: onSaved, onError: save.onError },
+    );
   });
 
   return (
@@ -68,18 +81,30 @@ export function UserEditForm({ user, growers, onSaved, cancelTo }: { user: User;
       </FormField>
       <div className="grid gap-4 sm:grid-cols-2">
         {self ? (
-          <ReadOnlyValue label={LABELS.role} value={ROLE_LABELS[user.role]} note="You cannot change your own role." />
+          <ReadOnlyValue
+            label={LABELS.role}
+            value={ROLE_LABELS[user.role]}
+            note="You cannot change your own role."
+          />
         ) : (
           <FormField label={LABELS.role} error={errors.role?.message}>
             <Select {...form.register('role')} options={labelled(ROLES, ROLE_LABELS)} />
           </FormField>
         )}
         {user.status === 'invited' ? (
-          <ReadOnlyValue label={LABELS.status} value="Invited" note="Waiting for them to choose a password." />
+          <ReadOnlyValue
+            label={LABELS.status}
+            value="Invited"
+            note="Waiting for them to choose a password."
+          />
         ) : self ? (
           <ReadOnlyValue label={LABELS.status} value="Active" note="You cannot disable yourself." />
         ) : (
-          <FormField label={LABELS.status} error={errors.status?.message} hint="A disabled person is signed out at once and cannot sign in.">
+          <FormField
+            label={LABELS.status}
+            error={errors.status?.message}
+            hint="A disabled person is signed out at once and cannot sign in."
+          >
             <Select {...form.register('status')}>
               <option value="active">Active</option>
               <option value="disabled">Disabled</option>
@@ -88,7 +113,12 @@ export function UserEditForm({ user, growers, onSaved, cancelTo }: { user: User;
         )}
       </div>
       <GrowerAssignment role={role} control={form.control} errors={errors} growers={growers} />
-      <FormActions submitLabel="Save changes" busy={update.isPending} cancelTo={cancelTo} error={save.formError} />
+      <FormActions
+        submitLabel="Save changes"
+        busy={update.isPending}
+        cancelTo={cancelTo}
+        error={save.formError}
+      />
     </form>
   );
 }

@@ -41,25 +41,36 @@ export function ResendButton({ user }: { user: User }) {
 
 /** The people of the workspace. `growerName` turns a grower id into its name. */
 export function UserTable({ users, growerName }: { users: User[]; growerName: (id: string) => string }) {
-  const growersOf = (u: User) => (u.role === 'farmer' ? (u.growerId ? [u.growerId] : []) : u.role === 'consultant' ? u.growerIds : []);
+  const growersOf = (u: User) =>
+    u.role === 'farmer' ? (u.growerId ? [u.growerId] : []) : u.role === 'consultant' ? u.growerIds : [];
   const columns: ColumnDef<User, unknown>[] = [
     {
       id: 'name',
       header: 'Name',
       accessorFn: (u) => u.name,
       cell: ({ row }) => (
-        <Link to={`/people/${row.original.id}`} className="font-medium underline-offset-2 hover:text-clay-700 hover:underline">
+        <Link
+          to={`/people/${row.original.id}`}
+          className="font-medium underline-offset-2 hover:text-clay-700 hover:underline"
+        >
           {row.original.name}
         </Link>
       ),
     },
-    { id: 'email', header: 'E-mail', accessorFn: (u) => u.email, cell: ({ getValue }) => <span className="break-all">{getValue() as string}</span> },
+    {
+      id: 'email',
+      header: 'E-mail',
+      accessorFn: (u) => u.email,
+      cell: ({ getValue }) => <span className="break-all">{getValue() as string}</span>,
+    },
     { id: 'role', header: 'Role', accessorFn: (u) => ROLE_LABELS[u.role] },
     {
       id: 'status',
       header: 'Status',
       accessorFn: (u) => STATUS[u.status].label,
-      cell: ({ row }) => <Badge tone={STATUS[row.original.status].tone}>{STATUS[row.original.status].label}</Badge>,
+      cell: ({ row }) => (
+        <Badge tone={STATUS[row.original.status].tone}>{STATUS[row.original.status].label}</Badge>
+      ),
     },
     {
       id: 'growers',
@@ -75,7 +86,11 @@ export function UserTable({ users, growerName }: { users: User[]; growerName: (i
       header: 'Last sign-in',
       accessorFn: (u) => u.lastSignInAt ?? undefined,
       sortUndefined: 'last',
-      cell: ({ row }) => <span className="text-ink-soft">{row.original.lastSignInAt ? formatDateTime(row.original.lastSignInAt) : 'Never'}</span>,
+      cell: ({ row }) => (
+        <span className="text-ink-soft">
+          {row.original.lastSignInAt ? formatDateTime(row.original.lastSignInAt) : 'Never'}
+        </span>
+      ),
     },
     {
       id: 'actions',
@@ -96,6 +111,13 @@ export function UserTable({ users, growerName }: { users: User[]; growerName: (i
       ),
     },
   ];
-  return <DataTable label="People" data={users} columns={columns} initialSort={[{ id: 'name', desc: false }]} getRowId={(u) => u.id} />;
+  return (
+    <DataTable
+      label="People"
+      data={users}
+      columns={columns}
+      initialSort={[{ id: 'name', desc: false }]}
+      getRowId={(u) => u.id}
+    />
+  );
 }
-

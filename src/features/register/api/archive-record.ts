@@ -8,7 +8,15 @@ export type ArchiveAction = 'archive' | 'restore';
  * POST /api/{resource}/:id/archive and /restore, the same pair for growers, farms, fields, seasons and
  * planters. The answer is the record, which every list then reloads, so it is not parsed here.
  */
-export const setArchived = async ({ resource, id, action }: { resource: RegisterResource; id: string; action: ArchiveAction }) => {
+export const setArchived = async ({
+  resource,
+  id,
+  action,
+}: {
+  resource: RegisterResource;
+  id: string;
+  action: ArchiveAction;
+}) => {
   await api.post(`/api/${resource}/${encodeURIComponent(id)}/${action}`);
 };
 

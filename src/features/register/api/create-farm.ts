@@ -6,6 +6,7 @@ import { farmKeys, useRegisterMutation } from './keys';
 export type CreateFarmInput = z.output<typeof farmInputSchema>;
 
 /** POST /api/farms: answers the new farm. */
-export const createFarm = async (input: CreateFarmInput) => farmSchema.parse(await api.post('/api/farms', input));
+export const createFarm = async (input: CreateFarmInput) =>
+  farmSchema.parse(await api.post('/api/farms', input));
 
 export const useCreateFarm = () => useRegisterMutation(createFarm, farmKeys.detail);

@@ -6,6 +6,7 @@ import { growerKeys, useRegisterMutation } from './keys';
 export type CreateGrowerInput = z.output<typeof growerInputSchema>;
 
 /** POST /api/growers: answers the new grower. */
-export const createGrower = async (input: CreateGrowerInput) => growerSchema.parse(await api.post('/api/growers', input));
+export const createGrower = async (input: CreateGrowerInput) =>
+  growerSchema.parse(await api.post('/api/growers', input));
 
 export const useCreateGrower = () => useRegisterMutation(createGrower, growerKeys.detail);

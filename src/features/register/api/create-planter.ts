@@ -6,6 +6,7 @@ import { planterKeys, useRegisterMutation } from './keys';
 export type CreatePlanterInput = z.output<typeof planterInputSchema>;
 
 /** POST /api/planters: answers the new planter. */
-export const createPlanter = async (input: CreatePlanterInput) => planterSchema.parse(await api.post('/api/planters', input));
+export const createPlanter = async (input: CreatePlanterInput) =>
+  planterSchema.parse(await api.post('/api/planters', input));
 
 export const useCreatePlanter = () => useRegisterMutation(createPlanter, planterKeys.detail);

@@ -6,6 +6,7 @@ import { seasonKeys, useRegisterMutation } from './keys';
 export type CreateSeasonInput = z.output<typeof seasonInputSchema>;
 
 /** POST /api/seasons: answers the new season. */
-export const createSeason = async (input: CreateSeasonInput) => seasonSchema.parse(await api.post('/api/seasons', input));
+export const createSeason = async (input: CreateSeasonInput) =>
+  seasonSchema.parse(await api.post('/api/seasons', input));
 
 export const useCreateSeason = () => useRegisterMutation(createSeason, seasonKeys.detail);

@@ -12,4 +12,5 @@ export const getFarms = async (params: FarmListParams = {}) =>
 export const farmsQueryOptions = (params: FarmListParams = {}) =>
   queryOptions({ queryKey: farmKeys.list(params), queryFn: () => getFarms(params) });
 
-export const useFarms = (params: FarmListParams = {}, enabled = true) => useQuery({ ...farmsQueryOptions(params), enabled });
+export const useFarms = (params: FarmListParams = {}, enabled = true) =>
+  useQuery({ ...farmsQueryOptions(params), enabled });

@@ -12,4 +12,5 @@ export const getFields = async (params: FieldListParams = {}) =>
 export const fieldsQueryOptions = (params: FieldListParams = {}) =>
   queryOptions({ queryKey: fieldKeys.list(params), queryFn: () => getFields(params) });
 
-export const useFields = (params: FieldListParams = {}, enabled = true) => useQuery({ ...fieldsQueryOptions(params), enabled });
+export const useFields = (params: FieldListParams = {}, enabled = true) =>
+  useQuery({ ...fieldsQueryOptions(params), enabled });

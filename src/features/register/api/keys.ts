@@ -18,7 +18,9 @@ export type RegisterResource = 'growers' | 'farms' | 'fields' | 'seasons' | 'pla
  */
 export const invalidateRegister = (qc: QueryClient) =>
   Promise.all(
-    [growerKeys, farmKeys, fieldKeys, seasonKeys, planterKeys].map((k) => qc.invalidateQueries({ queryKey: k.all })),
+    [growerKeys, farmKeys, fieldKeys, seasonKeys, planterKeys].map((k) =>
+      qc.invalidateQueries({ queryKey: k.all }),
+    ),
   );
 
 /**

@@ -47,7 +47,12 @@ export function ArchiveAction({
   };
   return (
     <>
-      <Button size={size} variant="ghost" onClick={() => setOpen(true)} aria-label={`${archived ? 'Restore' : 'Archive'} ${noun} ${name}`}>
+      <Button
+        size={size}
+        variant="ghost"
+        onClick={() => setOpen(true)}
+        aria-label={`${archived ? 'Restore' : 'Archive'} ${noun} ${name}`}
+      >
         {archived ? 'Restore' : 'Archive'}
       </Button>
       <ConfirmDialog
@@ -70,7 +75,11 @@ export function ArchiveAction({
         }
       >
         <p>{archived ? 'It comes back into the lists and pickers.' : EFFECT[resource]}</p>
-        {archived ? null : <p className="text-sm text-ink-soft">You can restore it at any time from the list with archived records shown.</p>}
+        {archived ? null : (
+          <p className="text-sm text-ink-soft">
+            You can restore it at any time from the list with archived records shown.
+          </p>
+        )}
       </ConfirmDialog>
     </>
   );

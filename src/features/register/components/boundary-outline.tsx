@@ -6,7 +6,15 @@ type MultiPolygon = NonNullable<Field['boundary']>;
  * A small drawing of a boundary, north up. Longitudes are scaled by the cosine of the mean latitude
  * (equirectangular), which keeps a field's shape true enough at this size; it is not a map.
  */
-export function BoundaryOutline({ boundary, size = 220, label }: { boundary: MultiPolygon; size?: number; label: string }) {
+export function BoundaryOutline({
+  boundary,
+  size = 220,
+  label,
+}: {
+  boundary: MultiPolygon;
+  size?: number;
+  label: string;
+}) {
   const positions = boundary.coordinates.flat(2);
   if (positions.length === 0) return null;
   const lats = positions.map((p) => p[1]);
@@ -21,8 +29,8 @@ export function BoundaryOutline({ boundary, size = 220, label }: { boundary: Mul
   const span = Math.max(maxX - minX, maxY - minY) || 1;
   const pad = 16;
   const scale = (size - 2 * pad) / span;
-  const ox = pad + ((size - 2 * pad) - (maxX - minX) * scale) / 2;
-  const oy = pad + ((size - 2 * pad) - (maxY - minY) * scale) / 2;
+  const ox = pad + (size - 2 * pad - (maxX - minX) * scale) / 2;
+  const oy = pad + (size - 2 * pad - (maxY - minY) * scale) / 2;
   const d = boundary.coordinates
     .flatMap((polygon) =>
       polygon.map(
@@ -45,7 +53,13 @@ export function BoundaryOutline({ boundary, size = 220, label }: { boundary: Mul
       aria-label={label}
       className="rounded-card border border-ink-line bg-paper-raised"
     >
-      <path d={d} fillRule="evenodd" className="fill-clay-100 stroke-clay-600" strokeWidth={1.5} strokeLinejoin="round" />
+      <path
+        d={d}
+        fillRule="evenodd"
+        className="fill-clay-100 stroke-clay-600"
+        strokeWidth={1.5}
+        strokeLinejoin="round"
+      />
       <text x={size - 4} y={11} textAnchor="end" className="fill-ink-faint font-mono text-[9px]">
         N↑
       </text>

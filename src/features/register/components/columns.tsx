@@ -30,22 +30,40 @@ export function nameColumn<T extends Named>(to: (row: T) => string, header = 'Na
 }
 
 /** A name of a parent record (grower, farm, field), linked to it. */
-export function parentColumn<T>(id: string, header: string, name: (row: T) => string, to: (row: T) => string): ColumnDef<T, unknown> {
+export function parentColumn<T>(
+  id: string,
+  header: string,
+  name: (row: T) => string,
+  to: (row: T) => string,
+): ColumnDef<T, unknown> {
   return {
     id,
     header,
     accessorFn: name,
     sortingFn: 'text',
     cell: ({ row }) => (
-      <Link to={to(row.original)} className="text-ink-soft underline-offset-2 hover:text-clay-700 hover:underline">
+      <Link
+        to={to(row.original)}
+        className="text-ink-soft underline-offset-2 hover:text-clay-700 hover:underline"
+      >
         {name(row.original)}
       </Link>
     ),
   };
 }
 
-export function textColumn<T>(id: string, header: string, value: (row: T) => string | null): ColumnDef<T, unknown> {
-  return { id, header, accessorFn: (r) => value(r) ?? '', sortingFn: 'text', cell: ({ getValue }) => (getValue() as string) || '—' };
+export function textColumn<T>(
+  id: string,
+  header: string,
+  value: (row: T) => string | null,
+): ColumnDef<T, unknown> {
+  return {
+    id,
+    header,
+    accessorFn: (r) => value(r) ?? '',
+    sortingFn: 'text',
+    cell: ({ getValue }) => (getValue() as string) || '—',
+  };
 }
 
 /** Figures: right-aligned, monospaced, sorted as numbers with empty values last. */
@@ -70,7 +88,9 @@ export function numberColumn<T>(
 
 /** An area in m², shown in acres or hectares with one decimal. */
 export const areaColumn = <T,>(system: UnitSystem, value: (row: T) => number | null) =>
-  numberColumn<T>('area', `Area (${areaUnitLabel(system)})`, value, (m2) => formatNumber(areaToDisplay(m2, system), 1));
+  numberColumn<T>('area', `Area (${areaUnitLabel(system)})`, value, (m2) =>
+    formatNumber(areaToDisplay(m2, system), 1),
+  );
 
 export function updatedColumn<T extends { updatedAt: string }>(): ColumnDef<T, unknown> {
   return {
@@ -96,14 +116,25 @@ export function actionsColumn<T extends Named>(
       canEdit(row.original) ? (
         <span className="flex justify-end gap-1">
           {row.original.archivedAt ? null : (
-            <ButtonLink size="sm" variant="ghost" to={editTo(row.original)} aria-label={`Edit ${row.original.name}`}>
+            <ButtonLink
+              size="sm"
+              variant="ghost"
+              to={editTo(row.original)}
+              aria-label={`Edit ${row.original.name}`}
+            >
               Edit
             </ButtonLink>
           )}
-          <ArchiveAction resource={resource} id={row.original.id} name={row.original.name} archived={!!row.original.archivedAt} />
+          <ArchiveAction
+            resource={resource}
+            id={row.original.id}
+            name={row.original.name}
+            archived={!!row.original.archivedAt}
+          />
         </span>
       ) : null,
   };
 }
 
-export const archivedRowClass = (row: { archivedAt: string | null }) => (row.archivedAt ? 'text-ink-faint' : '');
+export const archivedRowClass = (row: { archivedAt: string | null }) =>
+  row.archivedAt ? 'text-ink-faint' : '';

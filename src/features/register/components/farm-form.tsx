@@ -55,7 +55,10 @@ export function FarmForm({
   const onSubmit = form.handleSubmit(({ version, growerId: gid, ...rest }) => {
     save.begin();
     if (farm) {
-      update.mutate({ id: farm.id, input: { ...rest, version: version ?? farm.version } }, { onSuccess: onSaved, onError: save.onError });
+      update.mutate(
+        { id: farm.id, input: { ...rest, version: version ?? farm.version } },
+        { onSuccess: onSaved, onError: save.onError },
+      );
     } else {
       create.mutate({ growerId: gid, ...rest }, { onSuccess: onSaved, onError: save.onError });
     }
@@ -65,7 +68,11 @@ export function FarmForm({
     <form onSubmit={onSubmit} noValidate className="max-w-xl space-y-4">
       {save.conflictNotice}
       {farm ? (
-        <ReadOnlyValue label="Grower" value={farm.growerName} note="A farm stays with the grower it was added to." />
+        <ReadOnlyValue
+          label="Grower"
+          value={farm.growerName}
+          note="A farm stays with the grower it was added to."
+        />
       ) : (
         <RecordSelect
           label={LABELS.growerId}
@@ -82,7 +89,12 @@ export function FarmForm({
       <FormField label={LABELS.notes} error={errors.notes?.message}>
         <Textarea {...form.register('notes')} />
       </FormField>
-      <FormActions submitLabel={farm ? 'Save changes' : 'Add farm'} busy={create.isPending || update.isPending} cancelTo={cancelTo} error={save.formError} />
+      <FormActions
+        submitLabel={farm ? 'Save changes' : 'Add farm'}
+        busy={create.isPending || update.isPending}
+        cancelTo={cancelTo}
+        error={save.formError}
+      />
     </form>
   );
 }

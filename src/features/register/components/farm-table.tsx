@@ -5,16 +5,36 @@ import { actionsColumn, areaColumn, nameColumn, numberColumn, parentColumn, upda
 import { RegisterTable } from './register-table';
 
 /** Farms; a farm's name opens the list of its fields. */
-export function FarmTable({ farms, canEdit, hiddenColumns }: { farms: Farm[]; canEdit: boolean; hiddenColumns?: string[] }) {
+export function FarmTable({
+  farms,
+  canEdit,
+  hiddenColumns,
+}: {
+  farms: Farm[];
+  canEdit: boolean;
+  hiddenColumns?: string[];
+}) {
   const system = useUnitSystem();
   const columns: ColumnDef<Farm, unknown>[] = [
     nameColumn((f) => `/fields?growerId=${f.growerId}&farmId=${f.id}`),
-    parentColumn('grower', 'Grower', (f) => f.growerName, (f) => `/growers/${f.growerId}`),
+    parentColumn(
+      'grower',
+      'Grower',
+      (f) => f.growerName,
+      (f) => `/growers/${f.growerId}`,
+    ),
     numberColumn('fields', 'Fields', (f) => f.fieldCount),
     areaColumn(system, (f) => f.areaM2),
     updatedColumn(),
   ];
-  if (canEdit) columns.push(actionsColumn('farms', (f) => `/farms/${f.id}/edit`, () => true));
+  if (canEdit)
+    columns.push(
+      actionsColumn(
+        'farms',
+        (f) => `/farms/${f.id}/edit`,
+        () => true,
+      ),
+    );
   return (
     <RegisterTable
       label="Farms"

@@ -62,7 +62,10 @@ export function FieldForm({
   const onSubmit = form.handleSubmit(({ version, farmId: fid, ...rest }) => {
     save.begin();
     if (field) {
-      update.mutate({ id: field.id, input: { ...rest, version: version ?? field.version } }, { onSuccess: onSaved, onError: save.onError });
+      update.mutate(
+        { id: field.id, input: { ...rest, version: version ?? field.version } },
+        { onSuccess: onSaved, onError: save.onError },
+      );
     } else {
       create.mutate({ farmId: fid, ...rest }, { onSuccess: onSaved, onError: save.onError });
     }
@@ -72,7 +75,11 @@ export function FieldForm({
     <form onSubmit={onSubmit} noValidate className="max-w-xl space-y-4">
       {save.conflictNotice}
       {field ? (
-        <ReadOnlyValue label="Farm" value={`${field.farmName} (${field.growerName})`} note="A field stays on the farm it was added to." />
+        <ReadOnlyValue
+          label="Farm"
+          value={`${field.farmName} (${field.growerName})`}
+          note="A field stays on the farm it was added to."
+        />
       ) : (
         <div className="grid gap-4 sm:grid-cols-2">
           <NarrowByGrower
@@ -88,7 +95,11 @@ export function FieldForm({
             label={LABELS.farmId}
             placeholder="Choose a farm"
             loading={farms.isPending}
-            options={(farms.data ?? []).map((f) => ({ id: f.id, name: f.name, detail: growerId ? undefined : f.growerName }))}
+            options={(farms.data ?? []).map((f) => ({
+              id: f.id,
+              name: f.name,
+              detail: growerId ? undefined : f.growerName,
+            }))}
             registration={form.register('farmId')}
             error={errors.farmId?.message}
           />
@@ -100,7 +111,12 @@ export function FieldForm({
       <FormField label={LABELS.notes} error={errors.notes?.message}>
         <Textarea {...form.register('notes')} />
       </FormField>
-      <FormActions submitLabel={field ? 'Save changes' : 'Add field'} busy={create.isPending || update.isPending} cancelTo={cancelTo} error={save.formError} />
+      <FormActions
+        submitLabel={field ? 'Save changes' : 'Add field'}
+        busy={create.isPending || update.isPending}
+        cancelTo={cancelTo}
+        error={save.formError}
+      />
     </form>
   );
 }

@@ -13,7 +13,13 @@ import { useRecordForm } from './use-record-form';
 const formSchema = growerInputSchema.extend({ version: versionSchema.optional() });
 type Values = z.input<typeof formSchema>;
 
-const LABELS = { name: 'Name', contactName: 'Contact person', email: 'E-mail', phone: 'Phone', notes: 'Notes' };
+const LABELS = {
+  name: 'Name',
+  contactName: 'Contact person',
+  email: 'E-mail',
+  phone: 'Phone',
+  notes: 'Notes',
+};
 
 const toValues = (g?: Grower): Values => ({
   name: g?.name ?? '',
@@ -25,7 +31,15 @@ const toValues = (g?: Grower): Values => ({
 });
 
 /** Adds a grower, or edits one when `grower` is given. */
-export function GrowerForm({ grower, onSaved, cancelTo }: { grower?: Grower; onSaved: (g: Grower) => void; cancelTo: string }) {
+export function GrowerForm({
+  grower,
+  onSaved,
+  cancelTo,
+}: {
+  grower?: Grower;
+  onSaved: (g: Grower) => void;
+  cancelTo: string;
+}) {
   const { form, save } = useRecordForm({
     record: grower,
     resolver: zodResolver(formSchema),
@@ -40,7 +54,10 @@ export function GrowerForm({ grower, onSaved, cancelTo }: { grower?: Grower; onS
   const onSubmit = form.handleSubmit(({ version, ...input }) => {
     save.begin();
     if (grower) {
-      update.mutate({ id: grower.id, input: { ...input, version: version ?? grower.version } }, { onSuccess: onSaved, onError: save.onError });
+      update.mutate(
+        { id: grower.id, input: { ...input, version: version ?? grower.version } },
+        { onSuccess: onSaved, onError: save.onError },
+      );
     } else {
       create.mutate(input, { onSuccess: onSaved, onError: save.onError });
     }

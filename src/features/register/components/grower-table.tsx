@@ -12,13 +12,23 @@ export function GrowerTable({ growers, canEdit }: { growers: Grower[]; canEdit: 
     numberColumn('planters', 'Planters', (g) => g.planterCount),
     updatedColumn(),
   ];
-  if (canEdit) columns.push(actionsColumn('growers', (g) => `/growers/${g.id}/edit`, () => true));
+  if (canEdit)
+    columns.push(
+      actionsColumn(
+        'growers',
+        (g) => `/growers/${g.id}/edit`,
+        () => true,
+      ),
+    );
   return (
     <RegisterTable
       label="Growers"
       data={growers}
       columns={columns}
-      empty={{ title: 'No growers here', text: 'Growers you add, or that are assigned to you, are listed here.' }}
+      empty={{
+        title: 'No growers here',
+        text: 'Growers you add, or that are assigned to you, are listed here.',
+      }}
     />
   );
 }

@@ -37,7 +37,13 @@ export function useRegisterFilters(names: readonly FilterName[]) {
         />
       ) : null}
       {names.includes('farmId') ? (
-        <FilterSelect label="Farm" allLabel="All farms" value={values.farmId} options={farms.data ?? []} onChange={(v) => set('farmId', v)} />
+        <FilterSelect
+          label="Farm"
+          allLabel="All farms"
+          value={values.farmId}
+          options={farms.data ?? []}
+          onChange={(v) => set('farmId', v)}
+        />
       ) : null}
       {names.includes('fieldId') ? (
         <FilterSelect
@@ -48,7 +54,10 @@ export function useRegisterFilters(names: readonly FilterName[]) {
           onChange={(v) => set('fieldId', v)}
         />
       ) : null}
-      <ShowArchivedToggle checked={archived === 'true'} onChange={(on) => set('archived', on ? 'true' : '')} />
+      <ShowArchivedToggle
+        checked={archived === 'true'}
+        onChange={(on) => set('archived', on ? 'true' : '')}
+      />
     </FilterBar>
   );
   return { params, values, bar };

@@ -50,10 +50,17 @@ const LABELS: Record<string, string> = {
 };
 
 /** Validates with the shared schema after converting the user's units to SI; limits are told back in their units. */
-function planterResolver(system: UnitSystem, saved?: Planter): Resolver<PlanterFormValues, unknown, PlanterOut> {
+function planterResolver(
+  system: UnitSystem,
+  saved?: Planter,
+): Resolver<PlanterFormValues, unknown, PlanterOut> {
   const inner = zodResolver(planterInputSchema);
   return async (values, context, options) => {
-    const result = await inner(formToSi(values, system, saved), context, options as unknown as Parameters<typeof inner>[2]);
+    const result = await inner(
+      formToSi(values, system, saved),
+      context,
+      options as unknown as Parameters<typeof inner>[2],
+    );
     if (Object.keys(result.errors).length === 0) return { values: result.values as PlanterOut, errors: {} };
     const errors = { ...result.errors } as Record<string, { message?: string; type?: string }>;
     if (!values.growerId) errors.growerId = { type: 'required', message: 'Choose a grower' };
@@ -101,8 +108,15 @@ export function PlanterForm({
     labels: LABELS,
     format: (key, v) =>
       key === 'holesPerDisc' && Array.isArray(v)
-        ? v.map((h: { crop: string; holes: number }) => `${CROP_LABELS[h.crop as keyof typeof CROP_LABELS] ?? h.crop} ${h.holes}`).join(', ')
-        : v === null || v === undefined || v === '' || Number.isNaN(v) ? '(empty)' : String(v),
+        ? v
+            .map(
+              (h: { crop: string; holes: number }) =>
+                `${CROP_LABELS[h.crop as keyof typeof CROP_LABELS] ?? h.crop} ${h.holes}`,
+            )
+            .join(', ')
+        : v === null || v === undefined || v === '' || Number.isNaN(v)
+          ? '(empty)'
+          : String(v),
   });
   const holes = useFieldArray({ control: form.control, name: 'holesPerDisc' });
   const create = useCreatePlanter();
@@ -171,24 +185,39 @@ export function PlanterForm({
 
       <FormSection title="Rows and sections">
         <div className="grid gap-4 sm:grid-cols-3">
-          {numberField('rowCount', { hint: arrangement === 'split-row' ? 'Count every row unit, interplant rows included.' : undefined })}
+          {numberField('rowCount', {
+            hint: arrangement === 'split-row' ? 'Count every row unit, interplant rows included.' : undefined,
+          })}
           {numberField('rowSpacingM', { unit: lengthUnit })}
           <FormField label={LABELS.arrangement} error={err('arrangement')}>
             <Select {...form.register('arrangement')} options={labelled(ARRANGEMENTS, ARRANGEMENT_LABELS)} />
           </FormField>
-          {arrangement === 'split-row' ? numberField('interplantRowCount', { hint: 'The rows that fill in between the others.' }) : null}
+          {arrangement === 'split-row'
+            ? numberField('interplantRowCount', { hint: 'The rows that fill in between the others.' })
+            : null}
           {numberField('rowsPerSection')}
           {numberField('displaySectionLimit', { hint: 'The most sections the display can switch.' })}
         </div>
         <SectionLine rows={rowCount} perSection={rowsPerSection} limit={displaySectionLimit} />
       </FormSection>
 
-      <FormSection title="Seed meter" description="Holes in the seed disc for each crop the planter sows, and the disc speeds the meter works between.">
+      <FormSection
+        title="Seed meter"
+        description="Holes in the seed disc for each crop the planter sows, and the disc speeds the meter works between."
+      >
         <div role="group" aria-label={LABELS.holesPerDisc} className="space-y-2">
           {holes.fields.map((item, i) => (
             <div key={item.id} className="flex flex-wrap items-end gap-3">
-              <FormField label={`Crop ${i + 1}`} error={errors.holesPerDisc?.[i]?.crop?.message} className="w-48">
-                <Select {...form.register(`holesPerDisc.${i}.crop`)} placeholder="Choose a crop" options={labelled(CROPS, CROP_LABELS)} />
+              <FormField
+                label={`Crop ${i + 1}`}
+                error={errors.holesPerDisc?.[i]?.crop?.message}
+                className="w-48"
+              >
+                <Select
+                  {...form.register(`holesPerDisc.${i}.crop`)}
+                  placeholder="Choose a crop"
+                  options={labelled(CROPS, CROP_LABELS)}
+                />
               </FormField>
               <FormField
                 label={
@@ -199,15 +228,29 @@ export function PlanterForm({
                 error={errors.holesPerDisc?.[i]?.holes?.message}
                 className="w-36"
               >
-                <Input type="number" min={1} {...form.register(`holesPerDisc.${i}.holes`, { valueAsNumber: true })} />
+                <Input
+                  type="number"
+                  min={1}
+                  {...form.register(`holesPerDisc.${i}.holes`, { valueAsNumber: true })}
+                />
               </FormField>
-              <Button variant="ghost" size="md" onClick={() => holes.remove(i)} disabled={holes.fields.length === 1} aria-label={`Remove crop ${i + 1}`}>
+              <Button
+                variant="ghost"
+                size="md"
+                onClick={() => holes.remove(i)}
+                disabled={holes.fields.length === 1}
+                aria-label={`Remove crop ${i + 1}`}
+              >
                 Remove
               </Button>
             </div>
           ))}
           {holesError ? <p className="text-xs font-medium text-danger">{holesError}</p> : null}
-          <Button size="sm" onClick={() => nextCrop && holes.append({ crop: nextCrop, holes: Number.NaN })} disabled={!nextCrop}>
+          <Button
+            size="sm"
+            onClick={() => nextCrop && holes.append({ crop: nextCrop, holes: Number.NaN })}
+            disabled={!nextCrop}
+          >
             Add a crop
           </Button>
         </div>
@@ -216,8 +259,9 @@ export function PlanterForm({
           {numberField('discRpmMax', { unit: 'rpm' })}
         </div>
         <Notice tone="caution" title="Working near the meter">
-          A meter checked with a simulated speed while the tractor stands still turns its drives: keep hands and tools
-          clear of moving parts, follow the machine's operator manual, and handle treated seed as its label directs.
+          A meter checked with a simulated speed while the tractor stands still turns its drives: keep hands
+          and tools clear of moving parts, follow the machine's operator manual, and handle treated seed as
+          its label directs.
         </Notice>
       </FormSection>
 
@@ -233,14 +277,23 @@ export function PlanterForm({
           hint="GNSS measures true speed over the ground; a wheel sensor reads high when the wheel slips, and the meter then sows more than the target."
           className="sm:w-1/2"
         >
-          <Select {...form.register('groundSpeedSource')} placeholder="Choose a source" options={labelled(GROUND_SPEED_SOURCES, GROUND_SPEED_SOURCE_LABELS)} />
+          <Select
+            {...form.register('groundSpeedSource')}
+            placeholder="Choose a source"
+            options={labelled(GROUND_SPEED_SOURCES, GROUND_SPEED_SOURCE_LABELS)}
+          />
         </FormField>
       </FormSection>
 
       <FormField label={LABELS.notes} error={err('notes')}>
         <Textarea {...form.register('notes')} />
       </FormField>
-      <FormActions submitLabel={planter ? 'Save changes' : 'Add planter'} busy={create.isPending || update.isPending} cancelTo={cancelTo} error={save.formError} />
+      <FormActions
+        submitLabel={planter ? 'Save changes' : 'Add planter'}
+        busy={create.isPending || update.isPending}
+        cancelTo={cancelTo}
+        error={save.formError}
+      />
     </form>
   );
 }

@@ -18,25 +18,40 @@ export function PlanterTable({
   const system = useUnitSystem();
   const columns: ColumnDef<Planter, unknown>[] = [
     nameColumn((p) => `/planters/${p.id}`),
-    parentColumn('grower', 'Grower', (p) => p.growerName, (p) => `/growers/${p.growerId}`),
+    parentColumn(
+      'grower',
+      'Grower',
+      (p) => p.growerName,
+      (p) => `/growers/${p.growerId}`,
+    ),
     numberColumn('rows', 'Rows', (p) => p.rowCount),
-    numberColumn('spacing', `Row spacing (${lengthUnitLabel(system)})`, (p) => p.rowSpacingM, (m) =>
-      formatNumber(rowSpacingToDisplay(m, system), 1),
+    numberColumn(
+      'spacing',
+      `Row spacing (${lengthUnitLabel(system)})`,
+      (p) => p.rowSpacingM,
+      (m) => formatNumber(rowSpacingToDisplay(m, system), 1),
     ),
     numberColumn('sections', 'Sections', (p) => p.sectionCount),
-    numberColumn('speed', `Planned speed (${speedUnitLabel(system)})`, (p) => p.speedPlannedMps, (v) =>
-      formatNumber(speedToDisplay(v, system), 1),
+    numberColumn(
+      'speed',
+      `Planned speed (${speedUnitLabel(system)})`,
+      (p) => p.speedPlannedMps,
+      (v) => formatNumber(speedToDisplay(v, system), 1),
     ),
     textColumn('source', 'Ground speed from', (p) => GROUND_SPEED_SOURCE_LABELS[p.groundSpeedSource]),
   ];
-  if (planters.some(canEdit)) columns.push(actionsColumn('planters', (p) => `/planters/${p.id}/edit`, canEdit));
+  if (planters.some(canEdit))
+    columns.push(actionsColumn('planters', (p) => `/planters/${p.id}/edit`, canEdit));
   return (
     <RegisterTable
       label="Planters"
       data={planters}
       columns={columns}
       hiddenColumns={hiddenColumns}
-      empty={{ title: 'No planters here', text: 'A planter profile tells Sowright what the machine can deliver.' }}
+      empty={{
+        title: 'No planters here',
+        text: 'A planter profile tells Sowright what the machine can deliver.',
+      }}
     />
   );
 }

@@ -43,7 +43,9 @@ export const SPEED_KEYS = ['speedMinMps', 'speedPlannedMps', 'speedMaxMps'] as c
 type UnitKey = 'rowSpacingM' | (typeof SPEED_KEYS)[number];
 
 const toDisplay = (key: UnitKey, si: number, system: UnitSystem) =>
-  key === 'rowSpacingM' ? roundTo(rowSpacingToDisplay(si, system), 2) : roundTo(speedToDisplay(si, system), 2);
+  key === 'rowSpacingM'
+    ? roundTo(rowSpacingToDisplay(si, system), 2)
+    : roundTo(speedToDisplay(si, system), 2);
 const fromDisplay = (key: UnitKey, v: number, system: UnitSystem) =>
   key === 'rowSpacingM' ? rowSpacingFromDisplay(v, system) : speedFromDisplay(v, system);
 
@@ -124,8 +126,11 @@ export function formToSi(v: PlanterFormValues, system: UnitSystem, saved?: Plant
 export function messageInUserUnits(key: string, message: string, system: UnitSystem): string {
   const isSpeed = (SPEED_KEYS as readonly string[]).includes(key);
   if (key !== 'rowSpacingM' && !isSpeed) return message;
-  return message.replace(/(at (?:least|most)) (\d+(?:\.\d+)?) (m\/s|m)\b/, (_all, words: string, n: string) => {
-    const shown = toDisplay(isSpeed ? 'speedMinMps' : 'rowSpacingM', Number(n), system);
-    return `${words} ${roundTo(shown, 1)} ${isSpeed ? speedUnitLabel(system) : lengthUnitLabel(system)}`;
-  });
+  return message.replace(
+    /(at (?:least|most)) (\d+(?:\.\d+)?) (m\/s|m)\b/,
+    (_all, words: string, n: string) => {
+      const shown = toDisplay(isSpeed ? 'speedMinMps' : 'rowSpacingM', Number(n), system);
+      return `${words} ${roundTo(shown, 1)} ${isSpeed ? speedUnitLabel(system) : lengthUnitLabel(system)}`;
+    },
+  );
 }

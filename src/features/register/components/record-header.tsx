@@ -30,7 +30,13 @@ export function RecordHeader({
         canEdit ? (
           <>
             {archived ? null : <ButtonLink to={`/${resource}/${record.id}/edit`}>Edit</ButtonLink>}
-            <ArchiveAction resource={resource} id={record.id} name={record.name} archived={archived} size="md" />
+            <ArchiveAction
+              resource={resource}
+              id={record.id}
+              name={record.name}
+              archived={archived}
+              size="md"
+            />
           </>
         ) : null
       }

@@ -57,7 +57,12 @@ export function NarrowByGrower({
 }) {
   return (
     <FormField label="Grower" hint={`Narrows the ${narrows} to choose from.`}>
-      <Select value={value} onChange={(e) => onChange(e.target.value)} placeholder="All growers" options={recordOptions(growers)} />
+      <Select
+        value={value}
+        onChange={(e) => onChange(e.target.value)}
+        placeholder="All growers"
+        options={recordOptions(growers)}
+      />
     </FormField>
   );
 }

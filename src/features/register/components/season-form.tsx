@@ -22,7 +22,13 @@ const formSchema = seasonInputSchema.extend({
 });
 type Values = z.input<typeof formSchema>;
 
-const LABELS = { fieldId: 'Field', year: 'Year', crop: 'Crop', plannedPlantingDate: 'Planned planting date', notes: 'Notes' };
+const LABELS = {
+  fieldId: 'Field',
+  year: 'Year',
+  crop: 'Crop',
+  plannedPlantingDate: 'Planned planting date',
+  notes: 'Notes',
+};
 
 const toValues = (s: Season | undefined, fieldId: string): Values => ({
   fieldId: s?.fieldId ?? fieldId,
@@ -56,7 +62,10 @@ export function SeasonForm({
     toValues: (s?: Season) => toValues(s, fieldId),
     fetchRecord: getSeason,
     labels: LABELS,
-    format: (key, v) => (key === 'crop' && typeof v === 'string' && v in CROP_LABELS ? CROP_LABELS[v as keyof typeof CROP_LABELS] : String(v ?? '') || '(empty)'),
+    format: (key, v) =>
+      key === 'crop' && typeof v === 'string' && v in CROP_LABELS
+        ? CROP_LABELS[v as keyof typeof CROP_LABELS]
+        : String(v ?? '') || '(empty)',
   });
   const create = useCreateSeason();
   const update = useUpdateSeason();
@@ -65,7 +74,10 @@ export function SeasonForm({
   const onSubmit = form.handleSubmit(({ version, fieldId: fid, ...rest }) => {
     save.begin();
     if (season) {
-      update.mutate({ id: season.id, input: { ...rest, version: version ?? season.version } }, { onSuccess: onSaved, onError: save.onError });
+      update.mutate(
+        { id: season.id, input: { ...rest, version: version ?? season.version } },
+        { onSuccess: onSaved, onError: save.onError },
+      );
     } else {
       create.mutate({ fieldId: fid, ...rest }, { onSuccess: onSaved, onError: save.onError });
     }
@@ -75,7 +87,11 @@ export function SeasonForm({
     <form onSubmit={onSubmit} noValidate className="max-w-xl space-y-4">
       {save.conflictNotice}
       {season ? (
-        <ReadOnlyValue label="Field" value={`${season.fieldName} (${season.farmName}, ${season.growerName})`} note="A crop season stays with its field." />
+        <ReadOnlyValue
+          label="Field"
+          value={`${season.fieldName} (${season.farmName}, ${season.growerName})`}
+          note="A crop season stays with its field."
+        />
       ) : (
         <div className="grid gap-4 sm:grid-cols-2">
           <NarrowByGrower
@@ -91,7 +107,11 @@ export function SeasonForm({
             label={LABELS.fieldId}
             placeholder="Choose a field"
             loading={fields.isPending}
-            options={(fields.data ?? []).map((f) => ({ id: f.id, name: f.name, detail: growerId ? f.farmName : `${f.farmName}, ${f.growerName}` }))}
+            options={(fields.data ?? []).map((f) => ({
+              id: f.id,
+              name: f.name,
+              detail: growerId ? f.farmName : `${f.farmName}, ${f.growerName}`,
+            }))}
             registration={form.register('fieldId')}
             error={errors.fieldId?.message}
           />
@@ -99,19 +119,37 @@ export function SeasonForm({
       )}
       <div className="grid gap-4 sm:grid-cols-3">
         <FormField label={LABELS.year} error={errors.year?.message}>
-          <Input type="number" step={1} min={1990} max={2100} {...form.register('year', { valueAsNumber: true })} />
+          <Input
+            type="number"
+            step={1}
+            min={1990}
+            max={2100}
+            {...form.register('year', { valueAsNumber: true })}
+          />
         </FormField>
         <FormField label={LABELS.crop} error={errors.crop?.message}>
-          <Select {...form.register('crop')} placeholder="Choose a crop" options={labelled(CROPS, CROP_LABELS)} />
+          <Select
+            {...form.register('crop')}
+            placeholder="Choose a crop"
+            options={labelled(CROPS, CROP_LABELS)}
+          />
         </FormField>
         <FormField label={LABELS.plannedPlantingDate} error={errors.plannedPlantingDate?.message}>
-          <Input type="date" {...form.register('plannedPlantingDate', { setValueAs: (v: string) => v || null })} />
+          <Input
+            type="date"
+            {...form.register('plannedPlantingDate', { setValueAs: (v: string) => v || null })}
+          />
         </FormField>
       </div>
       <FormField label={LABELS.notes} error={errors.notes?.message}>
         <Textarea {...form.register('notes')} />
       </FormField>
-      <FormActions submitLabel={season ? 'Save changes' : 'Add crop season'} busy={create.isPending || update.isPending} cancelTo={cancelTo} error={save.formError} />
+      <FormActions
+        submitLabel={season ? 'Save changes' : 'Add crop season'}
+        busy={create.isPending || update.isPending}
+        cancelTo={cancelTo}
+        error={save.formError}
+      />
     </form>
   );
 }

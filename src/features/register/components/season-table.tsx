@@ -9,7 +9,15 @@ import { RegisterTable } from './register-table';
 type SeasonRow = Season & { name: string };
 const seasonLabel = (s: Season) => `${s.year} ${CROP_LABELS[s.crop].toLowerCase()} on ${s.fieldName}`;
 
-export function SeasonTable({ seasons, canEdit, hiddenColumns }: { seasons: Season[]; canEdit: boolean; hiddenColumns?: string[] }) {
+export function SeasonTable({
+  seasons,
+  canEdit,
+  hiddenColumns,
+}: {
+  seasons: Season[];
+  canEdit: boolean;
+  hiddenColumns?: string[];
+}) {
   const columns: ColumnDef<SeasonRow, unknown>[] = [
     numberColumn('year', 'Year', (s) => s.year, String),
     {
@@ -23,9 +31,19 @@ export function SeasonTable({ seasons, canEdit, hiddenColumns }: { seasons: Seas
         </span>
       ),
     },
-    parentColumn('field', 'Field', (s) => s.fieldName, (s) => `/fields/${s.fieldId}`),
+    parentColumn(
+      'field',
+      'Field',
+      (s) => s.fieldName,
+      (s) => `/fields/${s.fieldId}`,
+    ),
     textColumn('farm', 'Farm', (s) => s.farmName),
-    parentColumn('grower', 'Grower', (s) => s.growerName, (s) => `/growers/${s.growerId}`),
+    parentColumn(
+      'grower',
+      'Grower',
+      (s) => s.growerName,
+      (s) => `/growers/${s.growerId}`,
+    ),
     {
       id: 'planting',
       header: 'Planned planting',
@@ -35,7 +53,13 @@ export function SeasonTable({ seasons, canEdit, hiddenColumns }: { seasons: Seas
     },
   ];
   if (canEdit) {
-    columns.push(actionsColumn('seasons', (s) => `/seasons/${s.id}/edit`, () => true));
+    columns.push(
+      actionsColumn(
+        'seasons',
+        (s) => `/seasons/${s.id}/edit`,
+        () => true,
+      ),
+    );
   }
   return (
     <RegisterTable
@@ -44,7 +68,10 @@ export function SeasonTable({ seasons, canEdit, hiddenColumns }: { seasons: Seas
       columns={columns}
       hiddenColumns={hiddenColumns}
       initialSort={[{ id: 'year', desc: true }]}
-      empty={{ title: 'No crop seasons here', text: 'A crop season says what is planted in a field in a year.' }}
+      empty={{
+        title: 'No crop seasons here',
+        text: 'A crop season says what is planted in a field in a year.',
+      }}
     />
   );
 }

@@ -15,7 +15,10 @@ export function useRecordForm<V extends FieldValues, O, R extends { id: string }
   format?: (key: string, value: unknown) => string;
 }) {
   const { record, toValues, fetchRecord } = opts;
-  const form = useForm<V, unknown, O>({ resolver: opts.resolver, defaultValues: toValues(record) as DefaultValues<V> });
+  const form = useForm<V, unknown, O>({
+    resolver: opts.resolver,
+    defaultValues: toValues(record) as DefaultValues<V>,
+  });
   const save = useSaveErrors(form, {
     labels: opts.labels,
     format: opts.format,

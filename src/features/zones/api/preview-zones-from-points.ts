@@ -1,6 +1,9 @@
 import { useMutation } from '@tanstack/react-query';
 import type { z } from 'zod';
-import { zonesFromPointsPreviewSchema, type zonesFromPointsPreviewRequestSchema } from '@shared/schemas/zone-map.schema';
+import {
+  zonesFromPointsPreviewSchema,
+  type zonesFromPointsPreviewRequestSchema,
+} from '@shared/schemas/zone-map.schema';
 import { api } from '@/lib/api-client';
 
 export type ZonesFromPointsChoices = z.input<typeof zonesFromPointsPreviewRequestSchema>;

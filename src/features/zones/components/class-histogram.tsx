@@ -12,7 +12,15 @@ const decimalsFor = (span: number) => (span >= 100 ? 0 : span >= 10 ? 1 : 2);
  * The attribute's distribution as bars coloured by the zone class their middle falls in, with the class
  * breaks drawn as lines: how the classing cut the data.
  */
-export function ClassHistogram({ bins, breaks, attribute }: { bins: Bin[]; breaks: number[]; attribute: string }) {
+export function ClassHistogram({
+  bins,
+  breaks,
+  attribute,
+}: {
+  bins: Bin[];
+  breaks: number[];
+  attribute: string;
+}) {
   if (bins.length === 0) return null;
   const colours = rampColours(breaks.length + 1);
   const [lo, hi] = [bins[0].from, bins[bins.length - 1].to];
@@ -24,7 +32,12 @@ export function ClassHistogram({ bins, breaks, attribute }: { bins: Bin[]; break
   const d = decimalsFor(span);
   return (
     <figure className="rounded-card border border-ink-line bg-paper-raised p-3">
-      <svg viewBox={`0 0 ${w} ${h}`} className="h-auto w-full" role="img" aria-label={`Histogram of ${attribute} with ${breaks.length} class breaks`}>
+      <svg
+        viewBox={`0 0 ${w} ${h}`}
+        className="h-auto w-full"
+        role="img"
+        aria-label={`Histogram of ${attribute} with ${breaks.length} class breaks`}
+      >
         {bins.map((b, i) => (
           <rect
             key={i}
@@ -42,7 +55,15 @@ export function ClassHistogram({ bins, breaks, attribute }: { bins: Bin[]; break
         <line x1={pad} x2={w - pad} y1={base} y2={base} stroke="#1f2630" strokeWidth={1} />
         {breaks.map((b, i) => (
           <g key={i}>
-            <line x1={x(b)} x2={x(b)} y1={6} y2={base + 4} stroke="#1f2630" strokeWidth={1.25} strokeDasharray="4 3" />
+            <line
+              x1={x(b)}
+              x2={x(b)}
+              y1={6}
+              y2={base + 4}
+              stroke="#1f2630"
+              strokeWidth={1.25}
+              strokeDasharray="4 3"
+            />
             <text x={x(b)} y={base + 14} textAnchor="middle" className="fill-ink font-mono text-[10px]">
               {formatNumber(b, d)}
             </text>
@@ -56,7 +77,8 @@ export function ClassHistogram({ bins, breaks, attribute }: { bins: Bin[]; break
         </text>
       </svg>
       <figcaption className="mt-1 text-xs text-ink-soft">
-        {attribute}: points per bar, coloured by the zone class each bar falls in; dashed lines are the class breaks.
+        {attribute}: points per bar, coloured by the zone class each bar falls in; dashed lines are the class
+        breaks.
       </figcaption>
     </figure>
   );

@@ -20,14 +20,24 @@ export function OverlapList({
 }) {
   const { overlaps } = map.analysis;
   if (overlaps.length === 0) return null;
-  const name = (id: string) => map.zones.features.find((f) => f.properties.id === id)?.properties.name ?? 'a zone';
+  const name = (id: string) =>
+    map.zones.features.find((f) => f.properties.id === id)?.properties.name ?? 'a zone';
   return (
-    <Notice tone="caution" title={overlaps.length === 1 ? 'Two zones overlap' : `${overlaps.length} overlaps between zones`}>
-      <p>A place can be in one zone only. {canEdit ? 'Choose which zone keeps each overlap (hatched on the map).' : 'They are hatched on the map.'}</p>
+    <Notice
+      tone="caution"
+      title={overlaps.length === 1 ? 'Two zones overlap' : `${overlaps.length} overlaps between zones`}
+    >
+      <p>
+        A place can be in one zone only.{' '}
+        {canEdit
+          ? 'Choose which zone keeps each overlap (hatched on the map).'
+          : 'They are hatched on the map.'}
+      </p>
       <ul className="mt-2 space-y-2">
         {overlaps.map((o) => (
           <li key={`${o.aId}-${o.bId}`} className="text-ink">
-            <span className="font-medium">{name(o.aId)}</span> and <span className="font-medium">{name(o.bId)}</span> share{' '}
+            <span className="font-medium">{name(o.aId)}</span> and{' '}
+            <span className="font-medium">{name(o.bId)}</span> share{' '}
             <span className="font-mono">{formatArea(o.areaM2, system)}</span>.
             {canEdit ? (
               <span className="mt-1 flex flex-wrap gap-2">

@@ -3,9 +3,15 @@ import type { LegendEntry } from '@/components/map/legend';
 import { NO_VALUE_COLOUR, rampColour } from '@/components/map/ramp';
 import { formatNumber } from '@/lib/format';
 
-export type ZoneColouring = { by: 'index' | 'class' | 'none'; colourOf: (z: ZoneProps) => string; legend: LegendEntry[]; title: string };
+export type ZoneColouring = {
+  by: 'index' | 'class' | 'none';
+  colourOf: (z: ZoneProps) => string;
+  legend: LegendEntry[];
+  title: string;
+};
 
-const distinct = (values: (number | null)[]) => [...new Set(values.filter((v): v is number => v != null))].sort((a, b) => a - b);
+const distinct = (values: (number | null)[]) =>
+  [...new Set(values.filter((v): v is number => v != null))].sort((a, b) => a - b);
 
 /**
  * Zone colours on the cividis ramp: by productivity index when at least as many zones carry one as carry a
@@ -28,7 +34,9 @@ export function zoneColouring(zones: ZoneProps[]): ZoneColouring {
       title: 'Productivity index',
       colourOf: (z) => (z.productivityIndex == null ? NO_VALUE_COLOUR : rampColour(t(z.productivityIndex))),
       legend: [
-        ...indexes.slice(0, 9).map((v) => ({ key: `i${v}`, colour: rampColour(t(v)), label: formatNumber(v, v % 1 ? 2 : 0) })),
+        ...indexes
+          .slice(0, 9)
+          .map((v) => ({ key: `i${v}`, colour: rampColour(t(v)), label: formatNumber(v, v % 1 ? 2 : 0) })),
         ...missing('index'),
       ],
     };
@@ -39,8 +47,16 @@ export function zoneColouring(zones: ZoneProps[]): ZoneColouring {
       by: 'class',
       title: 'Class',
       colourOf: (z) => (z.classValue == null ? NO_VALUE_COLOUR : rampColour(t(z.classValue))),
-      legend: [...classes.map((v) => ({ key: `c${v}`, colour: rampColour(t(v)), label: `Class ${v}` })), ...missing('class')],
+      legend: [
+        ...classes.map((v) => ({ key: `c${v}`, colour: rampColour(t(v)), label: `Class ${v}` })),
+        ...missing('class'),
+      ],
     };
   }
-  return { by: 'none', title: 'Zones', colourOf: () => NO_VALUE_COLOUR, legend: [{ key: 'none', colour: NO_VALUE_COLOUR, label: 'No class or index yet' }] };
+  return {
+    by: 'none',
+    title: 'Zones',
+    colourOf: () => NO_VALUE_COLOUR,
+    legend: [{ key: 'none', colour: NO_VALUE_COLOUR, label: 'No class or index yet' }],
+  };
 }

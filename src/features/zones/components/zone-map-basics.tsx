@@ -5,7 +5,11 @@ export type ZoneMapBasics = { seasonId: string; name: string };
 
 /** What is missing before a zone map can be made, or null. */
 export const basicsProblem = (b: ZoneMapBasics) =>
-  !b.seasonId ? 'Choose the crop season the zone map is for.' : !b.name.trim() ? 'Give the zone map a name.' : null;
+  !b.seasonId
+    ? 'Choose the crop season the zone map is for.'
+    : !b.name.trim()
+      ? 'Give the zone map a name.'
+      : null;
 
 /** The crop season and name every new zone map needs, whichever way it is made. */
 export function ZoneMapBasicsFields({
@@ -19,7 +23,10 @@ export function ZoneMapBasicsFields({
 }) {
   return (
     <div className="grid max-w-2xl gap-3 sm:grid-cols-2">
-      <FormField label="Crop season" hint={seasons.length ? undefined : 'This field has no crop season yet: add one first.'}>
+      <FormField
+        label="Crop season"
+        hint={seasons.length ? undefined : 'This field has no crop season yet: add one first.'}
+      >
         <Select
           value={value.seasonId}
           onChange={(e) => onChange({ ...value, seasonId: e.target.value })}
@@ -28,7 +35,11 @@ export function ZoneMapBasicsFields({
         />
       </FormField>
       <FormField label="Name of the zone map">
-        <Input value={value.name} maxLength={120} onChange={(e) => onChange({ ...value, name: e.target.value })} />
+        <Input
+          value={value.name}
+          maxLength={120}
+          onChange={(e) => onChange({ ...value, name: e.target.value })}
+        />
       </FormField>
     </div>
   );

@@ -40,7 +40,15 @@ const nextZoneName = (map: ZoneMap) => {
  * also draw, split, merge, reshape, delete and rename zones, settle overlaps and fill gaps. Each edit carries
  * the map's version; when someone else changed it first the latest is loaded and the user told.
  */
-export function ZoneMapEditor({ map, system, canEdit }: { map: ZoneMap; system: UnitSystem; canEdit: boolean }) {
+export function ZoneMapEditor({
+  map,
+  system,
+  canEdit,
+}: {
+  map: ZoneMap;
+  system: UnitSystem;
+  canEdit: boolean;
+}) {
   const zones = useMemo(() => map.zones.features.map((f) => f.properties), [map]);
   const colouring = useMemo(() => zoneColouring(zones), [zones]);
   const [picked, setPicked] = useState<string[]>([]);
@@ -84,13 +92,15 @@ export function ZoneMapEditor({ map, system, canEdit }: { map: ZoneMap; system: 
       },
     });
   }
-  const newIds = (next: ZoneMap) => next.zones.features.map((f) => f.properties.id).filter((id) => !zones.some((z) => z.id === id));
+  const newIds = (next: ZoneMap) =>
+    next.zones.features.map((f) => f.properties.id).filter((id) => !zones.some((z) => z.id === id));
 
   const choose = (id: string, addToChoice: boolean) => {
     if (tool !== 'none') return;
     setPicked((prev) => {
       const current = prev.filter((x) => zones.some((z) => z.id === x));
-      if (addToChoice) return current.includes(id) ? current.filter((x) => x !== id) : [...current, id].slice(-2);
+      if (addToChoice)
+        return current.includes(id) ? current.filter((x) => x !== id) : [...current, id].slice(-2);
       return current.length === 1 && current[0] === id ? [] : [id];
     });
   };
@@ -102,7 +112,20 @@ export function ZoneMapEditor({ map, system, canEdit }: { map: ZoneMap; system: 
           hint: 'Click to place the corners of the new zone; click the first corner again, or press Finish. It is cut to the boundary.',
           onDone: (geometry) => {
             setTool('none');
-            run(add, { mapId: map.id, input: { version: map.version, name: nextZoneName(map), geometry, classValue: null, productivityIndex: null } }, newIds);
+            run(
+              add,
+              {
+                mapId: map.id,
+                input: {
+                  version: map.version,
+                  name: nextZoneName(map),
+                  geometry,
+                  classValue: null,
+                  productivityIndex: null,
+                },
+              },
+              newIds,
+            );
           },
           onCancel: () => setTool('none'),
         }
@@ -112,7 +135,10 @@ export function ZoneMapEditor({ map, system, canEdit }: { map: ZoneMap; system: 
             hint: `Draw a line right across ${one.name}: click to place points, then click the last point again, or press Finish.`,
             onDone: (line) => {
               setTool('none');
-              run(split, { mapId: map.id, input: { version: map.version, zoneId: one.id, line } }, (next) => [one.id, ...newIds(next)]);
+              run(split, { mapId: map.id, input: { version: map.version, zoneId: one.id, line } }, (next) => [
+                one.id,
+                ...newIds(next),
+              ]);
             },
             onCancel: () => setTool('none'),
           }
@@ -129,11 +155,21 @@ export function ZoneMapEditor({ map, system, canEdit }: { map: ZoneMap; system: 
     () =>
       map.zones.features
         .filter((f) => !(tool === 'corners' && f.properties.id === one?.id))
-        .map((f) => ({ id: f.properties.id, geometry: f.geometry, colour: colouring.colourOf(f.properties), style: 'zone' as const })),
+        .map((f) => ({
+          id: f.properties.id,
+          geometry: f.geometry,
+          colour: colouring.colourOf(f.properties),
+          style: 'zone' as const,
+        })),
     [map, colouring, tool, one?.id],
   );
   const lines = useMemo<MapLine[]>(
-    () => map.analysis.overlaps.map((o) => ({ id: `overlap-${o.aId}-${o.bId}`, geometry: o.geometry, style: 'overlap' as const })),
+    () =>
+      map.analysis.overlaps.map((o) => ({
+        id: `overlap-${o.aId}-${o.bId}`,
+        geometry: o.geometry,
+        style: 'overlap' as const,
+      })),
     [map],
   );
 
@@ -166,7 +202,13 @@ export function ZoneMapEditor({ map, system, canEdit }: { map: ZoneMap; system: 
                   run(update, {
                     mapId: map.id,
                     zoneId: one.id,
-                    input: { version: map.version, name: one.name, classValue: one.classValue, productivityIndex: one.productivityIndex, geometry: outline },
+                    input: {
+                      version: map.version,
+                      name: one.name,
+                      classValue: one.classValue,
+                      productivityIndex: one.productivityIndex,
+                      geometry: outline,
+                    },
                   })
                 }
               >
@@ -183,10 +225,18 @@ export function ZoneMapEditor({ map, system, canEdit }: { map: ZoneMap; system: 
             </>
           ) : (
             <>
-              <Button variant={tool === 'draw' ? 'primary' : 'secondary'} disabled={busy || tool !== 'none'} onClick={() => setTool('draw')}>
+              <Button
+                variant={tool === 'draw' ? 'primary' : 'secondary'}
+                disabled={busy || tool !== 'none'}
+                onClick={() => setTool('draw')}
+              >
                 Draw a zone
               </Button>
-              <Button variant={tool === 'split' ? 'primary' : 'secondary'} disabled={busy || tool !== 'none' || !one} onClick={() => setTool('split')}>
+              <Button
+                variant={tool === 'split' ? 'primary' : 'secondary'}
+                disabled={busy || tool !== 'none' || !one}
+                onClick={() => setTool('split')}
+              >
                 Split by a line
               </Button>
               <Button
@@ -200,7 +250,19 @@ export function ZoneMapEditor({ map, system, canEdit }: { map: ZoneMap; system: 
               </Button>
               <Button
                 disabled={busy || tool !== 'none' || selected.length !== 2}
-                onClick={() => run(merge, { mapId: map.id, input: { version: map.version, zoneIds: [selected[0], selected[1]] as [string, string] } }, () => [selected[0]])}
+                onClick={() =>
+                  run(
+                    merge,
+                    {
+                      mapId: map.id,
+                      input: {
+                        version: map.version,
+                        zoneIds: [selected[0], selected[1]] as [string, string],
+                      },
+                    },
+                    () => [selected[0]],
+                  )
+                }
               >
                 Merge the two
               </Button>
@@ -208,7 +270,10 @@ export function ZoneMapEditor({ map, system, canEdit }: { map: ZoneMap; system: 
                 Delete
               </Button>
               {map.analysis.gapAreaM2 >= SLIVER_M2 ? (
-                <Button disabled={busy || tool !== 'none'} onClick={() => run(fill, { mapId: map.id, version: map.version })}>
+                <Button
+                  disabled={busy || tool !== 'none'}
+                  onClick={() => run(fill, { mapId: map.id, version: map.version })}
+                >
                   Fill the gaps with a default zone
                 </Button>
               ) : null}
@@ -225,8 +290,8 @@ export function ZoneMapEditor({ map, system, canEdit }: { map: ZoneMap; system: 
       ) : null}
       {stale ? (
         <Notice tone="caution" title="Someone else changed this zone map">
-          It was changed by another person after you opened it, so your last change was not made. The latest version is loaded: look it
-          over and make the change again if it is still needed.
+          It was changed by another person after you opened it, so your last change was not made. The latest
+          version is loaded: look it over and make the change again if it is still needed.
         </Notice>
       ) : null}
       {problem ? (
@@ -252,8 +317,12 @@ export function ZoneMapEditor({ map, system, canEdit }: { map: ZoneMap; system: 
               title={colouring.title}
               entries={[
                 ...colouring.legend,
-                ...(lines.length ? [{ key: 'overlap', colour: INK.danger, hatch: true, label: 'Overlap' }] : []),
-                ...(map.analysis.gapAreaM2 >= SLIVER_M2 ? [{ key: 'gap', colour: INK.line, label: 'In no zone' }] : []),
+                ...(lines.length
+                  ? [{ key: 'overlap', colour: INK.danger, hatch: true, label: 'Overlap' }]
+                  : []),
+                ...(map.analysis.gapAreaM2 >= SLIVER_M2
+                  ? [{ key: 'gap', colour: INK.line, label: 'In no zone' }]
+                  : []),
                 { key: 'boundary', colour: INK.ink, outline: 'ink' as const, label: 'Field boundary' },
               ]}
             />
@@ -261,10 +330,18 @@ export function ZoneMapEditor({ map, system, canEdit }: { map: ZoneMap; system: 
         />
         <div className="space-y-3">
           {one ? (
-            <ZonePanel key={`${one.id}-${map.version}`} map={map} zone={one} system={system} canEdit={canEdit} onStale={() => setStale(true)} />
+            <ZonePanel
+              key={`${one.id}-${map.version}`}
+              map={map}
+              zone={one}
+              system={system}
+              canEdit={canEdit}
+              onStale={() => setStale(true)}
+            />
           ) : (
             <p className="rounded-card border border-dashed border-ink-line px-3 py-4 text-sm text-ink-soft">
-              Point at a zone to see its name and area; click it for the details{canEdit ? ' and to change it' : ''}.
+              Point at a zone to see its name and area; click it for the details
+              {canEdit ? ' and to change it' : ''}.
             </p>
           )}
           <OverlapList
@@ -272,7 +349,9 @@ export function ZoneMapEditor({ map, system, canEdit }: { map: ZoneMap; system: 
             system={system}
             canEdit={canEdit}
             busy={busy}
-            onKeep={(keepZoneId, loseZoneId) => run(resolve, { mapId: map.id, input: { version: map.version, keepZoneId, loseZoneId } })}
+            onKeep={(keepZoneId, loseZoneId) =>
+              run(resolve, { mapId: map.id, input: { version: map.version, keepZoneId, loseZoneId } })
+            }
           />
           {map.analysis.gapAreaM2 >= SLIVER_M2 ? (
             <Notice tone="info" title="Part of the field is in no zone">
@@ -290,9 +369,14 @@ export function ZoneMapEditor({ map, system, canEdit }: { map: ZoneMap; system: 
         tone="danger"
         busy={remove.isPending}
         onClose={() => setConfirmDelete(false)}
-        onConfirm={() => one && run(remove, { mapId: map.id, zoneId: one.id, version: map.version }, () => [])}
+        onConfirm={() =>
+          one && run(remove, { mapId: map.id, zoneId: one.id, version: map.version }, () => [])
+        }
       >
-        <p>What it covers becomes a gap in the field, until another zone takes it or the gaps are filled with a default zone.</p>
+        <p>
+          What it covers becomes a gap in the field, until another zone takes it or the gaps are filled with a
+          default zone.
+        </p>
       </ConfirmDialog>
     </div>
   );

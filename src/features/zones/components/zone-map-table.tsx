@@ -17,7 +17,15 @@ export const SOURCE_WORDS: Record<ZoneMapSummary['source'], string> = {
 const link = 'font-medium text-ink underline-offset-2 hover:text-clay-700 hover:underline';
 
 /** Zone maps with their version numbers, newest version first within each field and season. */
-export function ZoneMapTable({ items, hiddenColumns, empty }: { items: ZoneMapSummary[]; hiddenColumns?: string[]; empty: string }) {
+export function ZoneMapTable({
+  items,
+  hiddenColumns,
+  empty,
+}: {
+  items: ZoneMapSummary[];
+  hiddenColumns?: string[];
+  empty: string;
+}) {
   const columns: ColumnDef<ZoneMapSummary, unknown>[] = [
     {
       id: 'name',
@@ -41,7 +49,10 @@ export function ZoneMapTable({ items, hiddenColumns, empty }: { items: ZoneMapSu
       header: 'Field',
       accessorFn: (m) => m.fieldName,
       cell: ({ row }) => (
-        <Link to={`/fields/${row.original.fieldId}`} className="text-ink-soft underline-offset-2 hover:text-clay-700 hover:underline">
+        <Link
+          to={`/fields/${row.original.fieldId}`}
+          className="text-ink-soft underline-offset-2 hover:text-clay-700 hover:underline"
+        >
           {row.original.fieldName}
         </Link>
       ),
@@ -49,7 +60,12 @@ export function ZoneMapTable({ items, hiddenColumns, empty }: { items: ZoneMapSu
     { id: 'season', header: 'Crop season', accessorFn: (m) => m.seasonLabel },
     { id: 'zones', header: 'Zones', accessorFn: (m) => m.zoneCount, meta: { numeric: true } },
     { id: 'source', header: 'Made', accessorFn: (m) => SOURCE_WORDS[m.source] },
-    { id: 'updated', header: 'Last changed', accessorFn: (m) => m.updatedAt, cell: ({ getValue }) => formatDateTime(getValue() as string) },
+    {
+      id: 'updated',
+      header: 'Last changed',
+      accessorFn: (m) => m.updatedAt,
+      cell: ({ getValue }) => formatDateTime(getValue() as string),
+    },
   ];
   return (
     <DataTable
@@ -58,7 +74,10 @@ export function ZoneMapTable({ items, hiddenColumns, empty }: { items: ZoneMapSu
       columns={columns}
       hiddenColumns={hiddenColumns}
       getRowId={(m) => m.id}
-      initialSort={[{ id: 'season', desc: true }, { id: 'version', desc: true }]}
+      initialSort={[
+        { id: 'season', desc: true },
+        { id: 'version', desc: true },
+      ]}
       empty={<EmptyState title="No zone maps yet">{empty}</EmptyState>}
     />
   );

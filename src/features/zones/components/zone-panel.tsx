@@ -35,7 +35,11 @@ export function ZonePanel({
   const update = useUpdateZone(map.id);
   const form = useForm<Values>({
     resolver: zodResolver(formSchema),
-    defaultValues: { name: zone.name, classValue: zone.classValue, productivityIndex: zone.productivityIndex },
+    defaultValues: {
+      name: zone.name,
+      classValue: zone.classValue,
+      productivityIndex: zone.productivityIndex,
+    },
   });
   const { errors, isDirty } = form.formState;
   const share = map.analysis.boundaryAreaM2 > 0 ? (100 * zone.areaM2) / map.analysis.boundaryAreaM2 : null;
@@ -56,7 +60,11 @@ export function ZonePanel({
   });
 
   return (
-    <div className="space-y-3 rounded-card border border-ink-line bg-paper-raised p-3" aria-label={`Zone ${zone.name}`} role="group">
+    <div
+      className="space-y-3 rounded-card border border-ink-line bg-paper-raised p-3"
+      aria-label={`Zone ${zone.name}`}
+      role="group"
+    >
       <div>
         <p className="flex flex-wrap items-center gap-2 text-base font-semibold text-ink">
           {zone.name}
@@ -66,12 +74,16 @@ export function ZonePanel({
           <dt className="text-ink-soft">Area</dt>
           <dd className="font-mono tabular-nums">
             {formatArea(zone.areaM2, system)}
-            {share != null ? <span className="text-ink-soft"> ({formatNumber(share, 1)} % of the field)</span> : null}
+            {share != null ? (
+              <span className="text-ink-soft"> ({formatNumber(share, 1)} % of the field)</span>
+            ) : null}
           </dd>
           <dt className="text-ink-soft">Class</dt>
           <dd className="font-mono">{zone.classValue ?? '—'}</dd>
           <dt className="text-ink-soft">Productivity index</dt>
-          <dd className="font-mono">{zone.productivityIndex == null ? '—' : formatNumber(zone.productivityIndex, 2)}</dd>
+          <dd className="font-mono">
+            {zone.productivityIndex == null ? '—' : formatNumber(zone.productivityIndex, 2)}
+          </dd>
           {zone.meanValue != null ? (
             <>
               <dt className="text-ink-soft">Mean of the data</dt>
@@ -81,19 +93,41 @@ export function ZonePanel({
         </dl>
       </div>
       {canEdit ? (
-        <form key={`${zone.id}-${map.version}`} onSubmit={submit} noValidate className="space-y-2 border-t border-ink-line pt-3">
+        <form
+          key={`${zone.id}-${map.version}`}
+          onSubmit={submit}
+          noValidate
+          className="space-y-2 border-t border-ink-line pt-3"
+        >
           <FormField label={LABELS.name} error={errors.name?.message}>
             <Input {...form.register('name')} />
           </FormField>
           <div className="grid grid-cols-2 gap-2">
-            <FormField label={LABELS.classValue} error={errors.classValue?.message} hint="Whole number, 0–254">
-              <Input type="number" step={1} min={0} max={254} {...form.register('classValue', { setValueAs: numberOrNull })} />
+            <FormField
+              label={LABELS.classValue}
+              error={errors.classValue?.message}
+              hint="Whole number, 0–254"
+            >
+              <Input
+                type="number"
+                step={1}
+                min={0}
+                max={254}
+                {...form.register('classValue', { setValueAs: numberOrNull })}
+              />
             </FormField>
             <FormField label={LABELS.productivityIndex} error={errors.productivityIndex?.message} hint="0–10">
-              <Input type="number" min={0} max={10} {...form.register('productivityIndex', { setValueAs: numberOrNull })} />
+              <Input
+                type="number"
+                min={0}
+                max={10}
+                {...form.register('productivityIndex', { setValueAs: numberOrNull })}
+              />
             </FormField>
           </div>
-          {errors.root?.message ? <p className="text-xs font-medium text-danger">{errors.root.message}</p> : null}
+          {errors.root?.message ? (
+            <p className="text-xs font-medium text-danger">{errors.root.message}</p>
+          ) : null}
           <Button type="submit" size="sm" variant="primary" disabled={!isDirty} busy={update.isPending}>
             Save the zone
           </Button>

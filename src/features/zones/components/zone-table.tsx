@@ -31,7 +31,8 @@ export function ZoneTable({
   const sumM2 = zones.reduce((s, z) => s + z.areaM2, 0);
   const { boundaryAreaM2, gapAreaM2 } = map.analysis;
   const overlapM2 = map.analysis.overlaps.reduce((s, o) => s + o.areaM2, 0);
-  const share = (m2: number) => (boundaryAreaM2 > 0 ? `${formatNumber((100 * m2) / boundaryAreaM2, 1)} %` : '—');
+  const share = (m2: number) =>
+    boundaryAreaM2 > 0 ? `${formatNumber((100 * m2) / boundaryAreaM2, 1)} %` : '—';
   const hasMean = zones.some((z) => z.meanValue != null);
   return (
     <div className="overflow-x-auto rounded-card border border-ink-line bg-paper-raised">
@@ -74,14 +75,22 @@ export function ZoneTable({
                   onClick={(e) => onSelect(z.id, e.shiftKey || e.metaKey || e.ctrlKey)}
                   title="Choose this zone (hold Shift to choose a second)"
                 >
-                  <span aria-hidden className="inline-block h-3 w-4 shrink-0 rounded-[2px] border border-ink/30" style={{ backgroundColor: colouring.colourOf(z) }} />
+                  <span
+                    aria-hidden
+                    className="inline-block h-3 w-4 shrink-0 rounded-[2px] border border-ink/30"
+                    style={{ backgroundColor: colouring.colourOf(z) }}
+                  />
                   <span className="font-medium text-ink">{z.name}</span>
                   {z.isDefault ? <Badge>Default</Badge> : null}
                 </button>
               </th>
               <td className={num}>{z.classValue ?? '—'}</td>
-              <td className={num}>{z.productivityIndex == null ? '—' : formatNumber(z.productivityIndex, 2)}</td>
-              {hasMean ? <td className={num}>{z.meanValue == null ? '—' : formatNumber(z.meanValue, 2)}</td> : null}
+              <td className={num}>
+                {z.productivityIndex == null ? '—' : formatNumber(z.productivityIndex, 2)}
+              </td>
+              {hasMean ? (
+                <td className={num}>{z.meanValue == null ? '—' : formatNumber(z.meanValue, 2)}</td>
+              ) : null}
               <td className={num}>{area(z.areaM2)}</td>
               <td className={num}>{share(z.areaM2)}</td>
             </tr>
@@ -108,7 +117,9 @@ export function ZoneTable({
             <tr>
               <td colSpan={hasMean ? 6 : 5} className="px-3 py-1.5 text-xs text-ink-soft">
                 {gapAreaM2 >= SLIVER_M2 ? `${area(gapAreaM2)} ${unit} of the field is in no zone. ` : ''}
-                {overlapM2 >= SLIVER_M2 ? `${area(overlapM2)} ${unit} lies in two zones at once and is counted twice above.` : ''}
+                {overlapM2 >= SLIVER_M2
+                  ? `${area(overlapM2)} ${unit} lies in two zones at once and is counted twice above.`
+                  : ''}
               </td>
             </tr>
           ) : null}

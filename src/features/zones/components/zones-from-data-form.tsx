@@ -4,7 +4,12 @@ import { zodResolver } from '@hookform/resolvers/zod';
 import { z } from 'zod';
 import type { ImportPreview } from '@shared/schemas/import.schema';
 import type { MultiPolygonGeometry } from '@shared/schemas/geojson.schema';
-import { CLASS_METHOD_LABELS, CLASS_METHODS, zonesFromPointsSchema, type ZoneMap } from '@shared/schemas/zone-map.schema';
+import {
+  CLASS_METHOD_LABELS,
+  CLASS_METHODS,
+  zonesFromPointsSchema,
+  type ZoneMap,
+} from '@shared/schemas/zone-map.schema';
 import { acToM2, areaToDisplay, areaUnitLabel, haToM2, M_PER_FT, type UnitSystem } from '@shared/units';
 import { MapLegend } from '@/components/map/legend';
 import { MapFrame } from '@/components/map/map-frame';
@@ -24,14 +29,25 @@ import { basicsProblem, type ZoneMapBasics } from './zone-map-basics';
 const formSchema = z.object({
   attribute: z.string().min(1, 'Choose the attribute to class'),
   method: z.enum(CLASS_METHODS),
-  classes: z.number({ message: 'How many zones?' }).int('A whole number').min(2, 'At least 2 zones').max(9, 'At most 9 zones'),
+  classes: z
+    .number({ message: 'How many zones?' })
+    .int('A whole number')
+    .min(2, 'At least 2 zones')
+    .max(9, 'At most 9 zones'),
   cellSize: z.number({ message: 'Give a cell size' }).positive('Give a cell size'),
   minArea: z.number({ message: 'Give a minimum area (0 for none)' }).min(0, 'Not below 0'),
   power: z.number({ message: 'Give a power' }).min(1, 'From 1').max(4, 'To 4'),
 });
 type Values = z.infer<typeof formSchema>;
 
-const LABELS = { attribute: 'Attribute', method: 'How to class', classes: 'Zones', cellSize: 'Cell size', minArea: 'Smallest zone', power: 'Distance weighting power' };
+const LABELS = {
+  attribute: 'Attribute',
+  method: 'How to class',
+  classes: 'Zones',
+  cellSize: 'Cell size',
+  minArea: 'Smallest zone',
+  power: 'Distance weighting power',
+};
 /** The API's names for the converted inputs, so its refusals land beside the right input. */
 const API_TO_FORM: Record<string, keyof Values> = { cellSizeM: 'cellSize', minAreaM2: 'minArea' };
 
@@ -100,7 +116,9 @@ export function ZonesFromDataForm({
   const placeErrors = (e: unknown) => {
     if (!isApiError(e)) return;
     for (const d of e.details) {
-      const key = API_TO_FORM[String(d.path[0])] ?? (String(d.path[0]) in LABELS ? (String(d.path[0]) as keyof Values) : null);
+      const key =
+        API_TO_FORM[String(d.path[0])] ??
+        (String(d.path[0]) in LABELS ? (String(d.path[0]) as keyof Values) : null);
       if (key) form.setError(key, { type: 'server', message: d.message });
     }
   };
@@ -113,14 +131,20 @@ export function ZonesFromDataForm({
   const values = form.watch();
   const current = useMemo(() => JSON.stringify({ ...asked, name: undefined, seasonId: undefined }), [asked]);
   const parsed = formSchema.safeParse(values);
-  const upToDate = !!asked && parsed.success && JSON.stringify({ ...choicesOf(parsed.data), name: undefined, seasonId: undefined }) === current;
+  const upToDate =
+    !!asked &&
+    parsed.success &&
+    JSON.stringify({ ...choicesOf(parsed.data), name: undefined, seasonId: undefined }) === current;
 
   const save = () => {
     if (!asked) return;
     const problem = basicsProblem(basics);
     setBasicsError(problem);
     if (problem) return;
-    create.mutate(zonesFromPointsSchema.parse({ ...asked, seasonId: basics.seasonId, name: basics.name }), { onSuccess: onCreated, onError: placeErrors });
+    create.mutate(zonesFromPointsSchema.parse({ ...asked, seasonId: basics.seasonId, name: basics.name }), {
+      onSuccess: onCreated,
+      onError: placeErrors,
+    });
   };
 
   const result = classing.data;
@@ -130,38 +154,70 @@ export function ZonesFromDataForm({
   if (numeric.length === 0) {
     return (
       <Notice tone="caution" title="No numbers to class">
-        The points in this file carry no numeric attribute, so there is nothing to make zones from. Choose a file with a yield, soil
-        conductivity or organic matter column.
+        The points in this file carry no numeric attribute, so there is nothing to make zones from. Choose a
+        file with a yield, soil conductivity or organic matter column.
       </Notice>
     );
   }
 
   return (
     <div className="space-y-4">
-      <form onSubmit={runPreview} noValidate className="space-y-3 rounded-card border border-ink-line bg-paper-raised p-4">
+      <form
+        onSubmit={runPreview}
+        noValidate
+        className="space-y-3 rounded-card border border-ink-line bg-paper-raised p-4"
+      >
         <div className="grid gap-3 sm:grid-cols-3">
           <FormField label={LABELS.attribute} error={errors.attribute?.message}>
-            <Select {...form.register('attribute')} options={numeric.map((n) => ({ value: n.name, label: `${n.name} (${formatNumber(n.min, 2)} to ${formatNumber(n.max, 2)})` }))} />
+            <Select
+              {...form.register('attribute')}
+              options={numeric.map((n) => ({
+                value: n.name,
+                label: `${n.name} (${formatNumber(n.min, 2)} to ${formatNumber(n.max, 2)})`,
+              }))}
+            />
           </FormField>
           <FormField label={LABELS.method} error={errors.method?.message}>
             <Select {...form.register('method')} options={labelled(CLASS_METHODS, CLASS_METHOD_LABELS)} />
           </FormField>
           <FormField label={LABELS.classes} error={errors.classes?.message} hint="2 to 9">
-            <Input type="number" step={1} min={2} max={9} {...form.register('classes', { valueAsNumber: true })} />
+            <Input
+              type="number"
+              step={1}
+              min={2}
+              max={9}
+              {...form.register('classes', { valueAsNumber: true })}
+            />
           </FormField>
-          <FormField label={LABELS.cellSize} unit={lengthUnit(system)} error={errors.cellSize?.message} hint="The grid the points are spread onto">
+          <FormField
+            label={LABELS.cellSize}
+            unit={lengthUnit(system)}
+            error={errors.cellSize?.message}
+            hint="The grid the points are spread onto"
+          >
             <Input type="number" min={0} {...form.register('cellSize', { valueAsNumber: true })} />
           </FormField>
-          <FormField label={LABELS.minArea} unit={areaUnitLabel(system)} error={errors.minArea?.message} hint="Smaller pieces join their largest neighbour">
+          <FormField
+            label={LABELS.minArea}
+            unit={areaUnitLabel(system)}
+            error={errors.minArea?.message}
+            hint="Smaller pieces join their largest neighbour"
+          >
             <Input type="number" min={0} {...form.register('minArea', { valueAsNumber: true })} />
           </FormField>
-          <FormField label={LABELS.power} error={errors.power?.message} hint="Inverse distance weighting; 2 is usual">
+          <FormField
+            label={LABELS.power}
+            error={errors.power?.message}
+            hint="Inverse distance weighting; 2 is usual"
+          >
             <Input type="number" min={1} max={4} {...form.register('power', { valueAsNumber: true })} />
           </FormField>
         </div>
         <p className="text-xs text-ink-soft">
           {preview.pointCount != null ? `${preview.pointCount.toLocaleString('en-US')} points. ` : ''}
-          {attribute ? `${attribute.name}: ${attribute.count.toLocaleString('en-US')} values from ${formatNumber(attribute.min, 2)} to ${formatNumber(attribute.max, 2)}.` : ''}
+          {attribute
+            ? `${attribute.name}: ${attribute.count.toLocaleString('en-US')} values from ${formatNumber(attribute.min, 2)} to ${formatNumber(attribute.max, 2)}.`
+            : ''}
         </p>
         <Button type="submit" variant={upToDate ? 'secondary' : 'primary'} busy={classing.isPending}>
           Preview the zones
@@ -174,16 +230,27 @@ export function ZonesFromDataForm({
       ) : null}
       {result ? (
         <div className="space-y-3">
-          {!upToDate ? <Notice tone="info">The choices changed since this preview: preview again before creating the zone map.</Notice> : null}
+          {!upToDate ? (
+            <Notice tone="info">
+              The choices changed since this preview: preview again before creating the zone map.
+            </Notice>
+          ) : null}
           <div className="grid gap-4 lg:grid-cols-[minmax(0,3fr)_minmax(16rem,2fr)]">
             <MapFrame
               label="Preview of the zones from data"
               unitSystem={system}
               boundary={boundary}
-              areas={result.zones.map((z, i) => ({ id: `p${i}`, geometry: z.geometry, colour: colours[z.classIndex] ?? colours[0], style: 'zone' }))}
+              areas={result.zones.map((z, i) => ({
+                id: `p${i}`,
+                geometry: z.geometry,
+                colour: colours[z.classIndex] ?? colours[0],
+                style: 'zone',
+              }))}
               describeArea={(id) => {
                 const z = result.zones[Number(id.slice(1))];
-                return z ? `Class ${z.classIndex + 1}: mean ${formatNumber(z.meanValue, 2)}, ${formatArea(z.areaM2, system)}` : null;
+                return z
+                  ? `Class ${z.classIndex + 1}: mean ${formatNumber(z.meanValue, 2)}, ${formatArea(z.areaM2, system)}`
+                  : null;
               }}
               fitKey={fieldId}
               legend={
@@ -198,7 +265,11 @@ export function ZonesFromDataForm({
               }
             />
             <div className="space-y-3">
-              <ClassHistogram bins={result.histogram} breaks={result.breaks} attribute={asked?.attribute ?? ''} />
+              <ClassHistogram
+                bins={result.histogram}
+                breaks={result.breaks}
+                attribute={asked?.attribute ?? ''}
+              />
               <table className="w-full text-sm" aria-label="Zones of the preview">
                 <thead>
                   <tr className="border-b border-ink-line text-xs text-ink-soft">
@@ -211,11 +282,17 @@ export function ZonesFromDataForm({
                   {result.zones.map((z, i) => (
                     <tr key={i} className="border-b border-ink-line/60">
                       <td className="py-1">
-                        <span aria-hidden className="mr-2 inline-block h-3 w-4 rounded-[2px] align-middle" style={{ backgroundColor: colours[z.classIndex] }} />
+                        <span
+                          aria-hidden
+                          className="mr-2 inline-block h-3 w-4 rounded-[2px] align-middle"
+                          style={{ backgroundColor: colours[z.classIndex] }}
+                        />
                         {z.classIndex + 1}
                       </td>
                       <td className="py-1 text-right font-mono">{formatNumber(z.meanValue, 2)}</td>
-                      <td className="py-1 text-right font-mono">{formatNumber(areaToDisplay(z.areaM2, system), 2)}</td>
+                      <td className="py-1 text-right font-mono">
+                        {formatNumber(areaToDisplay(z.areaM2, system), 2)}
+                      </td>
                     </tr>
                   ))}
                 </tbody>
