@@ -1,0 +1,66 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { QueryTypes } from 'sequelize';
+import { startTestApp, signIn, type TestApp } from '../helpers/app';
+import { DEMO_USERS, DEMO_WORKSPACE } from '../../server/db/seeders/20261202-0001-demo';
+
+// `npm test` seeds the demo into its throwaway database, as `npm start` does.
+let t: TestApp;
+beforeAll(async () => {
+  t = await startTestApp();
+});
+afterAll(() => t.close());
+
+describe('the demo', () => {
+  it('has one person per role who can sign in with the password the README gives', async () => {
+    expect(DEMO_USERS.map((u) => u.role).sort()).toEqual(['admin', 'agronomist', 'consultant', 'farmer']);
+    for (const u of DEMO_USERS) {
+      const caller = await signIn(t.app, u.email, u.password);
+      const me = await caller.get('/api/auth/me');
+      expect(me.body.role).toBe(u.role);
+      expect(me.body.workspace.name).toBe(DEMO_WORKSPACE);
+    }
+  });
+
+  it('gives every demo field a valid boundary and a zone map whose zones add up to it', async () => {
+    const rows = await t.sequelize.query<{
+      field: string;
+      valid: boolean;
+      field_m2: number;
+      zones_m2: number;
+      n: number;
+    }>(
+      `SELECT f.name AS field, ST_IsValid(f.boundary) AS valid, f.area_m2 AS field_m2,
+              sum(z.area_m2) AS zones_m2, count(z.id)::int AS n
+         FROM fields f
+         JOIN workspaces w ON w.id = f.workspace_id AND w.name = :ws
+         JOIN zone_maps m ON m.field_id = f.id AND m.name = 'Yield history zones'
+         JOIN zones z ON z.zone_map_id = m.id
+        GROUP BY f.name, f.boundary, f.area_m2`,
+      { replacements: { ws: DEMO_WORKSPACE }, type: QueryTypes.SELECT },
+    );
+    expect(rows).toHaveLength(6);
+    for (const r of rows) {
+      expect(r.valid).toBe(true);
+      expect(r.n).toBe(3);
+      // Zones are cut from the boundary, so their ellipsoidal areas add up to it (derived; 0.01 % allows rounding).
+      expect(Math.abs(r.zones_m2 - r.field_m2) / r.field_m2).toBeLessThan(1e-4);
+    }
+  });
+
+  it('is seeded once: running the seeders again adds nothing', async () => {
+    const count = async () =>
+      (
+        await t.sequelize.query<{ n: number }>(
+          `SELECT (SELECT count(*) FROM workspaces WHERE name = :ws)::int + (SELECT count(*) FROM zone_maps m JOIN workspaces w ON w.id = m.workspace_id WHERE w.name = :ws AND m.name = 'Yield history zones')::int AS n`,
+          { replacements: { ws: DEMO_WORKSPACE }, type: QueryTypes.SELECT },
+        )
+      )[0].n;
+    const before = await count();
+    const { up: demo } = await import('../../server/db/seeders/20261202-0001-demo');
+    const { up: zones } = await import('../../server/db/seeders/20261202-0002-demo-zones');
+    await demo({ context: t.sequelize });
+    await zones({ context: t.sequelize });
+    expect(await count()).toBe(before);
+    expect(before).toBe(7);
+  });
+});
