@@ -9,7 +9,8 @@ export const seedsFor = (seedsPerM2: number, areaM2: number) => seedsPerM2 * are
 /** Whole units to order: rounded up (a part unit is a whole bag). */
 export function unitsToOrder(seeds: number, seedsPerUnit: number): number {
   if (!(seedsPerUnit > 0)) throw new RangeError('seedsPerUnit must be positive');
-  return Math.ceil(seeds / seedsPerUnit - 1e-9);
+  // A whole unit more only when the seeds pass a whole number of units (not by float noise); never -0.
+  return Math.max(0, Math.ceil(seeds / seedsPerUnit - 1e-9));
 }
 
 /**
