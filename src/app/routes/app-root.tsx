@@ -21,6 +21,14 @@ const REGISTER: NavGroup = {
     { to: '/planters', label: 'Planters' },
   ],
 };
+const PRESCRIBING: NavGroup = {
+  label: 'Prescribing',
+  items: [
+    { to: '/prescriptions', label: 'Prescriptions' },
+    { to: '/products', label: 'Products' },
+    { to: '/seed-orders', label: 'Seed orders' },
+  ],
+};
 const WORKSPACE: NavGroup = {
   label: 'Workspace',
   items: [
@@ -55,7 +63,7 @@ export function AppRoot() {
   return (
     <ViewerProvider me={user}>
       <AppShell
-        nav={canManagePeople(user) ? [REGISTER, WORKSPACE] : [REGISTER]}
+        nav={canManagePeople(user) ? [REGISTER, PRESCRIBING, WORKSPACE] : [REGISTER, PRESCRIBING]}
         user={{ name: user.name, role: ROLE_LABELS[user.role], workspace: user.workspace.name }}
         busy={navigation.state === 'loading'}
         footer={

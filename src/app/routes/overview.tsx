@@ -6,6 +6,8 @@ import { Loading } from '@/components/ui/loading';
 import { PageHeader } from '@/components/ui/page-header';
 import { ErrorNotice } from '@/components/ui/query-state';
 import { Section } from '@/components/ui/section';
+import { readyToExportQueryOptions } from '@/features/prescription-list/api/get-prescriptions';
+import { ReadyToExport } from '@/features/prescription-list/components/ready-to-export';
 import { farmsQueryOptions, useFarms } from '@/features/register/api/get-farms';
 import { fieldsQueryOptions, useFields } from '@/features/register/api/get-fields';
 import { growersQueryOptions, useGrowers } from '@/features/register/api/get-growers';
@@ -24,6 +26,7 @@ export const loader =
     void qc.prefetchQuery(farmsQueryOptions());
     void qc.prefetchQuery(fieldsQueryOptions());
     void qc.prefetchQuery(plantersQueryOptions());
+    void qc.prefetchQuery(readyToExportQueryOptions());
     return null;
   };
 
@@ -98,6 +101,21 @@ export function Component() {
     farmer: 'Your farms, fields and planters.',
     consultant: 'The growers assigned to you.',
   }[me.role];
+
+  const farmer = me.role === 'farmer';
+  const ready = (
+    <Section title="Ready to export" className={farmer ? 'mb-7' : 'mt-7'}>
+      <ReadyToExport
+        showGrower={!farmer}
+        limit={farmer ? undefined : SHORT}
+        empty={
+          farmer
+            ? 'When your agronomist approves a prescription it is listed here, and you get an e-mail.'
+            : 'Approved prescriptions are listed here until they are replaced by a newer version.'
+        }
+      />
+    </Section>
+  );
 
   let body: ReactNode;
   if (failed)
@@ -189,14 +207,12 @@ export function Component() {
             <Section title="Fields without a boundary" className="">
               <ShortList
                 empty="Every field has a boundary."
-                items={missing
-                  .slice(0, SHORT)
-                  .map((f) => ({
-                    id: f.id,
-                    to: `/fields/${f.id}`,
-                    name: f.name,
-                    note: `${f.farmName}, ${f.growerName}`,
-                  }))}
+                items={missing.slice(0, SHORT).map((f) => ({
+                  id: f.id,
+                  to: `/fields/${f.id}`,
+                  name: f.name,
+                  note: `${f.farmName}, ${f.growerName}`,
+                }))}
                 more={
                   missing.length > SHORT
                     ? { to: '/fields', label: `All ${missing.length} fields without one` }
@@ -222,7 +238,9 @@ export function Component() {
   return (
     <>
       <PageHeader title="Overview" description={description} />
+      {farmer ? ready : null}
       {body}
+      {farmer ? null : ready}
     </>
   );
 }

@@ -7,7 +7,7 @@ export type NavGroup = { label?: string; items: NavItem[] };
 
 /**
  * The signed-in frame: a left rail with the product name, navigation and who is signed in; the page on the
- * right. `busy` draws a thin bar along the top while the next page loads.
+ * right. `busy` draws a thin bar along the top while the next page loads. On paper only the page is printed.
  */
 export function AppShell({
   nav,
@@ -26,14 +26,17 @@ export function AppShell({
     <div className="min-h-screen md:flex">
       <a
         href="#main"
-        className="sr-only focus:not-sr-only focus:absolute focus:top-2 focus:left-2 focus:z-50 focus:bg-paper-raised focus:px-3 focus:py-2"
+        className="sr-only focus:not-sr-only focus:absolute focus:top-2 focus:left-2 focus:z-50 focus:bg-paper-raised focus:px-3 focus:py-2 print:hidden"
       >
         Skip to the page
       </a>
       {busy ? (
-        <div className="fixed inset-x-0 top-0 z-40 h-0.5 animate-pulse bg-clay-500" aria-hidden />
+        <div
+          className="fixed inset-x-0 top-0 z-40 h-0.5 animate-pulse bg-clay-500 print:hidden"
+          aria-hidden
+        />
       ) : null}
-      <aside className="flex shrink-0 flex-col border-b border-ink-line bg-paper-sunk md:sticky md:top-0 md:h-screen md:w-rail md:border-r md:border-b-0">
+      <aside className="flex shrink-0 flex-col border-b border-ink-line bg-paper-sunk md:sticky md:top-0 md:h-screen md:w-rail md:border-r md:border-b-0 print:hidden">
         <div className="px-4 pt-4 pb-3">
           <Brand />
         </div>
@@ -76,8 +79,8 @@ export function AppShell({
           {footer}
         </div>
       </aside>
-      <main id="main" className="min-w-0 flex-1 px-gutter py-5 md:px-8">
-        <div className="mx-auto max-w-6xl">{children}</div>
+      <main id="main" className="min-w-0 flex-1 px-gutter py-5 md:px-8 print:p-0">
+        <div className="mx-auto max-w-6xl print:max-w-none">{children}</div>
       </main>
     </div>
   );
