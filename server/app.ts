@@ -20,6 +20,8 @@ import { fieldRouter } from './routes/fields/field.router';
 import { seasonRouter } from './routes/seasons/season.router';
 import { planterRouter } from './routes/planters/planter.router';
 import { zoneMapRouter } from './routes/zone-maps/zone-map.router';
+import { productRouter } from './routes/products/product.router';
+import { prescriptionRouter, seedOrderRouter } from './routes/prescriptions/prescription.router';
 import { importRouter } from './routes/imports/import.router';
 import { boundaryRouter } from './routes/fields/boundary.router';
 import { NotFoundError } from './errors';
@@ -78,6 +80,9 @@ export function createApp(deps: AppDeps): Express {
   app.use('/api/zone-maps', zoneMapRouter());
   app.use('/api/imports', importRouter());
   app.use('/api/fields', boundaryRouter());
+  app.use('/api/products', productRouter());
+  app.use('/api/prescriptions', prescriptionRouter({ mailer: deps.mailer, appUrl: deps.appUrl }));
+  app.use('/api/seed-orders', seedOrderRouter());
   app.use('/api', (_req, _res, next) => next(new NotFoundError('Route')));
 
   if (deps.clientDir && existsSync(path.join(deps.clientDir, 'index.html'))) {

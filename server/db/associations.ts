@@ -10,6 +10,9 @@ import { CropSeason } from './models/crop-season.model';
 import { Planter } from './models/planter.model';
 import { initZoneMapModels } from './models/zone-map.model';
 import { initImportModels } from './models/upload.model';
+import { initPrescriptionModels } from './models/prescription.model';
+import { Product } from './models/product.model';
+import { Prescription } from './models/prescription.model';
 
 let initialised: Sequelize | null = null;
 
@@ -29,6 +32,19 @@ export function initModels(sequelize: Sequelize) {
   Planter.belongsTo(Grower, { as: 'grower', foreignKey: 'growerId' });
   initZoneMapModels(sequelize);
   initImportModels(sequelize);
+  initPrescriptionModels(sequelize);
 }
 
-export { Workspace, User, UserToken, ConsultantGrower, Grower, Farm, Field, CropSeason, Planter };
+export {
+  Workspace,
+  User,
+  UserToken,
+  ConsultantGrower,
+  Grower,
+  Farm,
+  Field,
+  CropSeason,
+  Planter,
+  Product,
+  Prescription,
+};

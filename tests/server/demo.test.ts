@@ -47,6 +47,33 @@ describe('the demo', () => {
     }
   });
 
+  it('gives every demo field an approved prescription whose planter check passes or was accepted with a reason', async () => {
+    const agronomist = DEMO_USERS.find((u) => u.role === 'agronomist')!;
+    const caller = await signIn(t.app, agronomist.email, agronomist.password);
+    const list = (await caller.get('/api/prescriptions?status=approved')).body.items as {
+      id: string;
+      fieldId: string;
+    }[];
+    expect(new Set(list.map((i) => i.fieldId)).size).toBe(6);
+    let accepted = 0;
+    for (const item of list) {
+      const rx = (await caller.get(`/api/prescriptions/${item.id}`)).body;
+      expect(rx.zones).toHaveLength(3);
+      // Rates by rule: every zone within the bounds, and the zones do not all share one rate.
+      for (const z of rx.zones) {
+        expect(z.rateSi).toBeGreaterThanOrEqual(rx.minRateSi - 1e-12);
+        expect(z.rateSi).toBeLessThanOrEqual(rx.maxRateSi + 1e-12);
+      }
+      expect(new Set(rx.zones.map((z: { rateSi: number }) => z.rateSi)).size).toBeGreaterThan(1);
+      if (rx.check?.blocking) {
+        expect(rx.acceptance?.reason.length).toBeGreaterThan(20);
+        accepted++;
+      }
+      expect(rx.totals.field.unitsToOrder).toBeGreaterThan(0);
+    }
+    expect(accepted).toBeLessThan(6);
+  });
+
   it('is seeded once: running the seeders again adds nothing', async () => {
     const count = async () =>
       (
@@ -60,6 +87,17 @@ describe('the demo', () => {
     const { up: zones } = await import('../../server/db/seeders/20261202-0002-demo-zones');
     await demo({ context: t.sequelize });
     await zones({ context: t.sequelize });
+    const prescriptions = async () =>
+      (
+        await t.sequelize.query<{ n: number }>(
+          'SELECT count(*)::int AS n FROM prescriptions p JOIN workspaces w ON w.id = p.workspace_id WHERE w.name = :ws',
+          { replacements: { ws: DEMO_WORKSPACE }, type: QueryTypes.SELECT },
+        )
+      )[0].n;
+    const rxBefore = await prescriptions();
+    const { up: rx } = await import('../../server/db/seeders/20261202-0003-demo-prescriptions');
+    await rx({ context: t.sequelize });
+    expect(await prescriptions()).toBe(rxBefore);
     expect(await count()).toBe(before);
     expect(before).toBe(7);
   });

@@ -13,7 +13,7 @@ import type {
 
 const include = [{ model: Grower, as: 'grower', attributes: ['name'] }];
 
-function toDto(p: Planter): PlanterDto {
+export function planterToDto(p: Planter): PlanterDto {
   return {
     id: p.id,
     growerId: p.growerId,
@@ -49,14 +49,14 @@ export async function listPlanters(actor: Actor, q: z.output<typeof planterListQ
     include,
     order: [['name', 'ASC']],
   });
-  return { items: rows.map(toDto) };
+  return { items: rows.map(planterToDto) };
 }
 
 async function findScoped(actor: Actor, id: string) {
   return assertFound(await Planter.findOne({ where: scopedWhere(actor, { id }), include }), 'Planter');
 }
 
-export const getPlanter = async (actor: Actor, id: string) => toDto(await findScoped(actor, id));
+export const getPlanter = async (actor: Actor, id: string) => planterToDto(await findScoped(actor, id));
 
 /** The profile fields a create or an edit may set: an allowlist, never the request body as it came. */
 function profileOf(input: z.output<typeof planterUpdateSchema> | z.output<typeof planterInputSchema>) {
