@@ -48,7 +48,7 @@ export function Component() {
     <>
       <div className="print:hidden">
         <PageHeader
-          title="Seed order"
+          title="Seed orders"
           description="What to buy for a grower's year, totalled from the prescriptions of their fields."
         />
         <FilterBar label="Order for">
@@ -61,13 +61,15 @@ export function Component() {
               onChange={(v) => set('growerId', v, ['year'])}
             />
           ) : null}
-          <FilterSelect
-            label="Year"
-            allLabel={years.length ? 'Newest' : 'No seasons'}
-            value={asked ? String(asked) : ''}
-            options={years.map((y) => ({ id: String(y), name: String(y) }))}
-            onChange={(v) => set('year', v)}
-          />
+          {growerId ? (
+            <FilterSelect
+              label="Year"
+              allLabel={years.length ? 'Newest' : 'No seasons'}
+              value={asked ? String(asked) : ''}
+              options={years.map((y) => ({ id: String(y), name: String(y) }))}
+              onChange={(v) => set('year', v)}
+            />
+          ) : null}
           <Checkbox
             className="h-9"
             label="Include drafts"

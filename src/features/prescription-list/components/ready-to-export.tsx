@@ -1,6 +1,7 @@
 import type { ColumnDef } from '@tanstack/react-table';
 import { Link } from 'react-router-dom';
 import type { PrescriptionSummary } from '@shared/schemas/prescription.schema';
+import { ButtonLink } from '@/components/ui/button';
 import { DataTable } from '@/components/ui/data-table';
 import { EmptyState } from '@/components/ui/empty-state';
 import { QueryState } from '@/components/ui/query-state';
@@ -63,6 +64,21 @@ export function ReadyToExport({
       header: 'Approved',
       accessorFn: (p) => p.approvedAt ?? '',
       cell: ({ getValue }) => formatDate(getValue() as string),
+    },
+    {
+      id: 'open',
+      header: () => <span className="sr-only">Open</span>,
+      enableSorting: false,
+      meta: { shrink: true },
+      cell: ({ row }) => (
+        <ButtonLink
+          size="sm"
+          to={`/prescriptions/${row.original.id}`}
+          aria-label={`Export ${row.original.name} for ${row.original.fieldName}`}
+        >
+          Export…
+        </ButtonLink>
+      ),
     },
   ];
   return (

@@ -202,7 +202,7 @@ export function ProductForm({
               {...form.register('currency')}
               maxLength={3}
               autoCapitalize="characters"
-              className="w-28 font-mono uppercase"
+              className="font-mono uppercase"
             />
           </FormField>
         </div>
