@@ -128,16 +128,21 @@ function gridOf(input: PrescriptionExportInput, cellSizeM: number): RateGrid {
   });
 }
 
-/** Positions to `decimals` places, consecutive repeats dropped (rings kept closed). */
+/**
+ * Positions to `decimals` places, consecutive repeats dropped; a hole that rounding shrinks below a triangle is
+ * dropped, an outer ring never (a zone stays in the file even if it is smaller than the rounding).
+ */
 function roundPositions(g: MultiPolygon, decimals: number): MultiPolygon {
   return {
     type: 'MultiPolygon',
     coordinates: g.coordinates.map((rings) =>
-      rings.map((ring) =>
-        ring
-          .map((p): Position => [roundTo(p[0], decimals), roundTo(p[1], decimals)])
-          .filter((p, i, all) => i === 0 || p[0] !== all[i - 1][0] || p[1] !== all[i - 1][1]),
-      ),
+      rings
+        .map((ring) =>
+          ring
+            .map((p): Position => [roundTo(p[0], decimals), roundTo(p[1], decimals)])
+            .filter((p, i, all) => i === 0 || p[0] !== all[i - 1][0] || p[1] !== all[i - 1][1]),
+        )
+        .filter((ring, i) => i === 0 || ring.length >= 4),
     ),
   };
 }

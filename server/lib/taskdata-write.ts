@@ -100,17 +100,18 @@ export const GRID_FILE = 'GRD00001';
 /** Designators longer than this are cut (from memory: ISO 11783-10 designators are at most 32 characters). */
 const DESIGNATOR_MAX = 32;
 
+/** Characters XML 1.0 cannot hold: C0 controls but tab, line feed and return; lone surrogates; U+FFFE/U+FFFF. */
+const NOT_XML =
+  // eslint-disable-next-line no-control-regex -- finding the controls XML 1.0 forbids is the point
+  /[\0-\x08\x0B\x0C\x0E-\x1F\uFFFE\uFFFF]|[\uD800-\uDBFF](?![\uDC00-\uDFFF])|(?<![\uD800-\uDBFF])[\uDC00-\uDFFF]/g;
+
 /**
- * Text for an XML attribute: the five special characters and white-space controls escaped, characters XML 1.0
- * cannot hold (other C0 controls, lone surrogates, U+FFFE/U+FFFF) replaced by U+FFFD. Non-ASCII stays as it is.
+ * Text for an XML attribute: characters XML 1.0 cannot hold dropped (a U+FFFD in their place would read as an
+ * encoding fault), the five special characters and the white-space controls escaped. Non-ASCII stays as it is.
  */
 export function xmlAttr(text: string): string {
   return text
-    .replace(
-      // eslint-disable-next-line no-control-regex -- finding the controls XML 1.0 forbids is the point
-      /[\0-\x08\x0B\x0C\x0E-\x1F\uFFFE\uFFFF]|[\uD800-\uDBFF](?![\uDC00-\uDFFF])|(?<![\uD800-\uDBFF])[\uDC00-\uDFFF]/g,
-      '\uFFFD',
-    )
+    .replace(NOT_XML, '')
     .replace(/&/g, '&amp;')
     .replace(/</g, '&lt;')
     .replace(/>/g, '&gt;')
@@ -120,7 +121,9 @@ export function xmlAttr(text: string): string {
     .replace(/\r/g, '&#13;');
 }
 
-const designator = (text: string) => Array.from(text.trim()).slice(0, DESIGNATOR_MAX).join('');
+/** A designator: what XML can hold, trimmed, at most {@link DESIGNATOR_MAX} characters (code points). */
+const designator = (text: string) =>
+  Array.from(text.replace(NOT_XML, '').trim()).slice(0, DESIGNATOR_MAX).join('');
 
 function element(
   name: string,

@@ -455,6 +455,18 @@ describe('ISO 11783-10 task data, zones layout', () => {
     }
   });
 
+  it('keeps designators well-formed: controls replaced, line breaks escaped, cut at 32 characters', async () => {
+    const name = 'Bas\u0001-fond\n★ «nord» & <est> "très" long, long, long';
+    const zones = input.zones.map((z, i) => (i === 1 ? { ...z, name } : z));
+    const { root } = await readTaskData('zones', { zones });
+    const names = all(root, 'TZN').map((z) => z.getAttribute('B'));
+    // From memory: designators of at most 32 characters (see taskdata-write.ts); the control dropped.
+    expect(names).toContain(
+      Array.from('Bas-fond\n★ «nord» & <est> "très" long, long, long').slice(0, 32).join(''),
+    );
+    expect(names).toContain(ETANG);
+  });
+
   it('uses DDI 6 (mg/m²) for mass and DDI 1 (mm³/m²) for volume', async () => {
     // Derived: 150 kg/ha = 0.015 kg/m² = 15 000 mg/m²; 100 L/ha = 10⁻⁵ m³/m² = 10 000 mm³/m².
     expect(ddiValue('mass', 150 / 10_000)).toBe(15_000);
