@@ -5,7 +5,7 @@ import { subtractArea, unionAreas } from '../../shared/geo/polygon-clip';
 import { OUT_OF_FIELD, gridCellFeatures, rateGrid, type RateGrid } from '../../shared/geo/rate-grid';
 import { rewindRfc7946 } from '../../shared/geo/rewind';
 import { RATE_UNIT_DEFS, rateFromSi, type RateKind, type RateUnit } from '../../shared/rates/rate-units';
-import { DEFAULT_LINE_NAME } from '../../shared/rates/totals';
+import { DEFAULT_LINE_NAME, UNCOVERED_MIN_M2 } from '../../shared/rates/totals';
 import { M2_PER_AC, M2_PER_HA } from '../../shared/units';
 import { safeFileName, writePolygonShapefile, zipShapefile, type DbfField } from './shapefile-write';
 import { RATE_DDI, ddiValue, zipTaskData, type TaskDataInput, type TaskDataZone } from './taskdata-write';
@@ -45,9 +45,6 @@ export type ExportLayout = { layout: 'zones' | 'grid'; cellSizeM: number };
  * so more would make files of hundreds of megabytes. The task-data grid takes up to 2 000 000 (rate-grid.ts).
  */
 export const MAX_VECTOR_GRID_CELLS = 250_000;
-
-/** Uncovered area below this is the round-off of polygon arithmetic (shared/rates/totals.ts uses the same). */
-const UNCOVERED_MIN_M2 = 0.5;
 
 type Row = { zone: string; rateSi: number; areaM2: number; geometry: MultiPolygon };
 

@@ -31,7 +31,8 @@ describe('a draft prescription', () => {
     // Zones plus the uncovered part are the boundary (ellipsoidal areas from PostGIS).
     const zoned = rx.zones.reduce((s, z) => s + z.areaM2, 0);
     expect(rel(zoned + rx.uncoveredAreaM2, rx.boundaryAreaM2)).toBeLessThan(1e-6);
-    expect(rel(rx.totals.field.areaM2, rx.boundaryAreaM2)).toBeLessThan(1e-6);
+    // Totals leave out slivers under 10 m² (shared/rates/totals.ts UNCOVERED_MIN_M2).
+    expect(Math.abs(rx.totals.field.areaM2 - rx.boundaryAreaM2)).toBeLessThan(10);
     // The planter check runs for a seed product with a planter: 32 000 seeds/ac is deliverable.
     expect(rx.check?.blocking).toBe(false);
     expect(rx.check?.holesPerDisc).toBe(30);
