@@ -1,8 +1,14 @@
+import { readdirSync } from 'node:fs';
 import js from '@eslint/js';
 import tseslint from 'typescript-eslint';
 import importX from 'eslint-plugin-import-x';
 import reactHooks from 'eslint-plugin-react-hooks';
 import globals from 'globals';
+
+/** Every client feature folder: each may import only itself (and shared code), never another feature. */
+const FEATURES = readdirSync(new URL('./src/features', import.meta.url), { withFileTypes: true })
+  .filter((d) => d.isDirectory())
+  .map((d) => d.name);
 
 export default tseslint.config(
   { ignores: ['dist/**', 'node_modules/**', '.data/**', '.tmp/**', 'fixtures/**', 'coverage/**'] },
@@ -31,42 +37,12 @@ export default tseslint.config(
             { target: './shared', from: './server', message: 'shared/ must not import the server' },
             { target: './src', from: './server', message: 'the client must not import the server' },
             { target: './server', from: './src', message: 'the server must not import the client' },
-            {
-              target: './src/features/auth',
+            ...FEATURES.map((name) => ({
+              target: `./src/features/${name}`,
               from: './src/features',
-              except: ['./auth'],
+              except: [`./${name}`],
               message: 'features do not import each other; compose them in src/app',
-            },
-            {
-              target: './src/features/register',
-              from: './src/features',
-              except: ['./register'],
-              message: 'features do not import each other; compose them in src/app',
-            },
-            {
-              target: './src/features/imports',
-              from: './src/features',
-              except: ['./imports'],
-              message: 'features do not import each other; compose them in src/app',
-            },
-            {
-              target: './src/features/boundaries',
-              from: './src/features',
-              except: ['./boundaries'],
-              message: 'features do not import each other; compose them in src/app',
-            },
-            {
-              target: './src/features/zones',
-              from: './src/features',
-              except: ['./zones'],
-              message: 'features do not import each other; compose them in src/app',
-            },
-            {
-              target: './src/features/people',
-              from: './src/features',
-              except: ['./people'],
-              message: 'features do not import each other; compose them in src/app',
-            },
+            })),
           ],
         },
       ],
