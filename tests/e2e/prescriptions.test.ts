@@ -39,6 +39,8 @@ const one = (n: number) => n.toFixed(1);
 
 let w: World;
 let productName = '';
+let productId = '';
+let zoneMapId = '';
 /** The split line: north–south through the middle of the world's square field (factory.ts squareBoundary). */
 const MID_LON = -93.6 + 0.0025;
 
@@ -92,6 +94,8 @@ beforeAll(async () => {
     notes: null,
   });
   expect(product.status, JSON.stringify(product.body)).toBe(201);
+  productId = product.body.id;
+  zoneMapId = map.id;
 });
 
 /** A person of the test workspace, signed in through the form. */
@@ -216,5 +220,65 @@ describe('a prescription from zones to export, in the browser', () => {
     expect([...byZone.keys()].sort()).toEqual(['East half', 'West half']);
     const west = byZone.get('West half') as { properties: { rate_si: number } };
     expect(west.properties.rate_si).toBeCloseTo(FIXED / M2_PER_AC, 9); // DOMAIN.md §1 (derived)
+  });
+
+  it("a save that crosses someone else's keeps what was typed, lists it beside what is saved, and saves it over", async () => {
+    const { baseUrl } = world();
+    const agronomist = w.callers.agronomist;
+    const si = (perAc: number) => perAc / M2_PER_AC; // DOMAIN.md §1 (derived)
+    const created = await agronomist.post('/api/prescriptions', {
+      zoneMapId,
+      productId,
+      planterId: w.a.planter.id,
+      name: `Crossed saves ${tag()}`,
+      rateUnit: 'seeds/ac',
+      defaultRateSi: si(32_000),
+      outOfFieldRateSi: 0,
+      minRateSi: si(28_000),
+      maxRateSi: si(40_000),
+    });
+    expect(created.status, JSON.stringify(created.body)).toBe(201);
+    const draft = created.body;
+    const zoneId = (name: string) => draft.zones.find((z: { name: string }) => z.name === name).id;
+
+    const page = await pageAs('agronomist');
+    await page.goto(`${baseUrl}/prescriptions/${draft.id}`);
+    await page.getByRole('heading', { level: 1, name: draft.name }).waitFor();
+    await page.getByLabel('Rate of West half (seeds/ac)').fill('34000');
+
+    // Meanwhile another save changes the other half.
+    const other = await agronomist.put(`/api/prescriptions/${draft.id}`, {
+      version: draft.version,
+      name: draft.name,
+      productId,
+      planterId: w.a.planter.id,
+      rateUnit: 'seeds/ac',
+      defaultRateSi: draft.defaultRateSi,
+      outOfFieldRateSi: 0,
+      minRateSi: draft.minRateSi,
+      maxRateSi: draft.maxRateSi,
+      rates: [
+        { zoneId: zoneId('West half'), rateSi: si(32_000) },
+        { zoneId: zoneId('East half'), rateSi: si(38_000) },
+      ],
+    });
+    expect(other.status, JSON.stringify(other.body)).toBe(200);
+
+    await page.getByRole('button', { name: 'Save', exact: true }).click();
+    const notice = page.getByRole('alert').filter({ hasText: 'Someone else saved this prescription' });
+    await notice.waitFor(WAIT);
+    expect(await notice.innerText()).toContain('West half: yours 34,000 seeds/ac, saved now 32,000 seeds/ac');
+    expect(await notice.innerText()).not.toContain('East half');
+    expect(await page.getByLabel('Rate of West half (seeds/ac)').inputValue()).toBe('34000');
+    // The other person's rate shows; the typed one stays.
+    expect(await page.getByLabel('Rate of East half (seeds/ac)').inputValue()).toBe('38000');
+
+    await notice.getByRole('button', { name: 'Keep my changes' }).click();
+    await page.getByRole('button', { name: 'Save', exact: true }).click();
+    await page.getByText('All saved').waitFor(WAIT);
+    const saved = await agronomist.get(`/api/prescriptions/${draft.id}`);
+    const rateOf = (name: string) => saved.body.zones.find((z: { name: string }) => z.name === name).rateSi;
+    expect(rateOf('West half')).toBeCloseTo(si(34_000), 9);
+    expect(rateOf('East half')).toBeCloseTo(si(38_000), 9);
   });
 });

@@ -30,14 +30,15 @@ import { rateFigures } from './rate-values';
 import { RatesTable, rateInputId } from './rates-table';
 import { RulePanel } from './rule-panel';
 import { TotalsPanel } from './totals-panel';
+import { ConflictNotice } from './conflict-notice';
 import {
   BOUND_KEYS,
   BOUND_LABELS,
+  bodyOf,
   hasProblems,
   problemsOf,
-  type BoundKey,
   useDraft,
-  bodyOf,
+  type BoundKey,
 } from './use-draft';
 
 /** Less uncovered area than this (m²) is the slivers of polygon arithmetic: not worth a note. */
@@ -203,33 +204,18 @@ export function PrescriptionEditor({
     <div className="space-y-5">
       <LifeCycle prescription={latest} canWrite={canWrite} block={block} />
       {conflict ? (
-        <Notice tone="caution" title="Someone else saved this prescription while you were working">
-          <p>
-            Version {conflict.version} is saved now. Your typed values are kept here and are not saved yet.
-          </p>
-          <ul className="mt-1 list-disc pl-5 text-ink">
-            {conflict.zones
-              .filter(
-                (z) =>
-                  draft.rates[z.id] != null && Math.abs((draft.rates[z.id] as number) - z.rateSi) > 1e-12,
-              )
-              .map((z) => (
-                <li key={z.id}>
-                  {z.name}: yours{' '}
-                  <span className="font-mono">{rateFigures(draft.rates[z.id] as number, unit)}</span>, saved{' '}
-                  <span className="font-mono">{rateFigures(z.rateSi, unit)}</span>
-                </li>
-              ))}
-          </ul>
-          <div className="mt-2 flex flex-wrap gap-2">
-            <Button size="sm" variant="primary" onClick={() => d.keepMine()}>
-              Keep mine (then Save)
-            </Button>
-            <Button size="sm" onClick={() => d.takeTheirs()}>
-              Use the saved version
-            </Button>
-          </div>
-        </Notice>
+        <ConflictNotice
+          mine={draft}
+          conflict={conflict}
+          onKeepMine={() => {
+            setStale(false);
+            d.keepMine();
+          }}
+          onTakeTheirs={() => {
+            setStale(false);
+            d.takeTheirs();
+          }}
+        />
       ) : stale ? (
         <Notice tone="caution" title="Someone else saved this prescription">
           Loading the saved version; your typed values stay here.

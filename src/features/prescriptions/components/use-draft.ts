@@ -31,6 +31,24 @@ export const draftOf = (p: Prescription): Draft => ({
 
 const sameDraft = (a: Draft, b: Draft) => JSON.stringify(a) === JSON.stringify(b);
 
+const SCALAR_KEYS = ['name', 'rateUnit', ...BOUND_KEYS] as const;
+
+/** What was changed here since `from` was read: the draft's entries that differ from it. */
+export function changesOf(draft: Draft, from: Draft) {
+  const fields = SCALAR_KEYS.filter((k) => draft[k] !== from[k]);
+  const rates = Object.keys(draft.rates).filter((id) => draft.rates[id] !== from.rates[id]);
+  return { fields, rates };
+}
+
+/** The newer version with what was changed here laid over it. */
+function overlay(theirs: Draft, draft: Draft, from: Draft): Draft {
+  const { fields, rates } = changesOf(draft, from);
+  const next: Draft = { ...theirs, rates: { ...theirs.rates } };
+  for (const k of fields) (next as Record<string, unknown>)[k] = draft[k];
+  for (const id of rates) if (id in next.rates) next.rates[id] = draft.rates[id];
+  return next;
+}
+
 /** Problems with the draft as typed: by bound key, and by zone id. */
 export type DraftProblems = {
   name?: string;
@@ -81,25 +99,30 @@ export function bodyOf(draft: Draft, p: Prescription, version: number): UpdatePr
   };
 }
 
+/** A newer version that arrived while something was changed here, and the draft as it was opened. */
+export type Conflict = { theirs: Prescription; opened: Draft };
+
 /**
  * The editor's unsaved state over the prescription it was read from (`base`). When a newer version
- * arrives (saved here, or by someone else) and nothing is changed here, the draft follows it; when
- * something is changed here, the typed values stay and `conflict` holds the newer version until the person
- * chooses: keep theirs, or save theirs over with the typed values.
+ * arrives (saved here, or by someone else) and nothing is changed here, the draft follows it. When something
+ * is changed here, the draft becomes the newer version with those changes laid over it, and `conflict`
+ * says so until the person chooses: keep the changes (then save), or take the saved version as it is.
  */
 export function useDraft(p: Prescription) {
   const [base, setBase] = useState(p);
   const [draft, setDraft] = useState(() => draftOf(p));
-  const [conflict, setConflict] = useState<Prescription | null>(null);
+  const [conflict, setConflict] = useState<Conflict | null>(null);
   const dirty = !sameDraft(draft, draftOf(base));
   if (p !== base && (p.id !== base.id || p.version !== base.version)) {
     if (!dirty || p.id !== base.id) {
-      setBase(p);
       setDraft(draftOf(p));
       setConflict(null);
-    } else if (conflict?.version !== p.version) {
-      setConflict(p);
+    } else {
+      const opened = conflict?.opened ?? draftOf(base);
+      setDraft(overlay(draftOf(p), draft, opened));
+      setConflict({ theirs: p, opened });
     }
+    setBase(p);
   } else if (p !== base && !dirty) {
     // The same version read again: nothing to keep apart.
     setBase(p);
@@ -118,18 +141,13 @@ export function useDraft(p: Prescription) {
       setDraft(draftOf(next));
       setConflict(null);
     },
-    /** Drop what is typed here and take the newer version. */
+    /** Drop what was changed here and take the saved version. */
     takeTheirs: () => {
-      const next = conflict ?? p;
-      setBase(next);
-      setDraft(draftOf(next));
+      setDraft(draftOf(base));
       setConflict(null);
     },
-    /** Keep what is typed here; the next save goes over the newer version. */
-    keepMine: () => {
-      if (conflict) setBase(conflict);
-      setConflict(null);
-    },
+    /** Keep what was changed here over the saved version; the next save carries it. */
+    keepMine: () => setConflict(null),
     discard: () => setDraft(draftOf(base)),
   };
 }
