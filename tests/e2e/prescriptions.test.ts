@@ -163,7 +163,16 @@ describe('a prescription from zones to export, in the browser', () => {
     // Saved, the server's check blocks approval until the rate changes or the check is accepted.
     await expect.poll(() => approve.isDisabled(), WAIT).toBe(true);
     expect(await page.locator('#approve-held').innerText()).toContain('planter check flags zones');
-    expect(await page.getByRole('button', { name: 'Accept the check' }).isVisible()).toBe(true);
+    // Accepting the check with a reason lets it through; changing a rate afterwards asks again.
+    await page.getByLabel('Why the planter can be left like this').fill('Too short');
+    await page.getByRole('button', { name: 'Accept the check' }).click();
+    expect(await page.getByText('at least 10 characters').isVisible()).toBe(true);
+    await page
+      .getByLabel('Why the planter can be left like this')
+      .fill('The grower plants the west half at 4.5 mph this year.');
+    await page.getByRole('button', { name: 'Accept the check' }).click();
+    await page.getByText('Check accepted').waitFor(WAIT);
+    await expect.poll(() => approve.isEnabled(), WAIT).toBe(true);
 
     // Fixed: a rate the disc delivers at every speed.
     await page.getByLabel('Rate of West half (seeds/ac)').fill(String(FIXED));
@@ -280,5 +289,22 @@ describe('a prescription from zones to export, in the browser', () => {
     const rateOf = (name: string) => saved.body.zones.find((z: { name: string }) => z.name === name).rateSi;
     expect(rateOf('West half')).toBeCloseTo(si(34_000), 9);
     expect(rateOf('East half')).toBeCloseTo(si(38_000), 9);
+
+    // Rates by rule: base × productivity index, rounded to the step, held between lowest and highest
+    // (DEVELOPERS.md "Rate rule"). West 34 000 × 0.9 = 30 600 → 30 500; East 34 000 × 1.1 = 37 400 → 37 500,
+    // held at 36 000 (derived).
+    const rule = page.getByRole('region', { name: 'Rates by rule' });
+    await rule.getByLabel('Base rate').fill('34000');
+    await rule.getByLabel('Highest').fill('36000');
+    await rule.getByLabel('Round to').fill('500');
+    const preview = page.getByRole('table', { name: 'Rates by rule, preview' });
+    expect(await preview.getByRole('row', { name: /West half/ }).innerText()).toMatch(/30,500$/);
+    expect(await preview.getByRole('row', { name: /East half/ }).innerText()).toMatch(
+      /36,000\s*held at highest$/,
+    );
+    await rule.getByRole('button', { name: 'Use these rates' }).click();
+    expect(await page.getByLabel('Rate of West half (seeds/ac)').inputValue()).toBe('30500');
+    expect(await page.getByLabel('Rate of East half (seeds/ac)').inputValue()).toBe('36000');
+    expect(await page.getByText('Unsaved changes').isVisible()).toBe(true);
   });
 });

@@ -3,7 +3,7 @@ import { Link } from 'react-router-dom';
 import { CROP_LABELS } from '@shared/schemas/crops';
 import type { Planter } from '@shared/schemas/planter.schema';
 import type { Prescription, PlanterCheck } from '@shared/schemas/prescription.schema';
-import type { RateUnit } from '@shared/rates/rate-units';
+import { RATE_UNIT_DEFS, type RateUnit } from '@shared/rates/rate-units';
 import { speedToDisplay, speedUnitLabel, type UnitSystem } from '@shared/units';
 import { ProblemList } from '@/components/form/problem-list';
 import { Badge } from '@/components/ui/badge';
@@ -148,7 +148,7 @@ export function CheckPanel({
                 Zone
               </th>
               <th scope="col" className={`${th} text-right`} rowSpan={2}>
-                Rate
+                Rate ({RATE_UNIT_DEFS[unit].label})
               </th>
               <th scope="col" className={`${th} text-right`} rowSpan={2} title="At the planned speed">
                 Seeds/s/row
@@ -199,7 +199,9 @@ export function CheckPanel({
                 <td className={num}>{formatNumber(z.discRpm.low, 1)}</td>
                 <td className={`${num} font-medium`}>{formatNumber(z.discRpm.planned, 1)}</td>
                 <td className={num}>{formatNumber(z.discRpm.high, 1)}</td>
-                <td className={num}>{z.rateSi > 0 && check.holesPerDisc ? speed(z.fastestSpeedMps) : '—'}</td>
+                <td className={`${num} ${z.status === 'flagged' ? 'font-medium text-danger' : ''}`}>
+                  {z.rateSi > 0 && check.holesPerDisc ? speed(z.fastestSpeedMps) : '—'}
+                </td>
                 <td className="px-2 py-1.5">
                   <Badge tone={CHECK_TONE[z.status]}>{CHECK_LABEL[z.status]}</Badge>
                 </td>

@@ -101,7 +101,12 @@ export function RatesTable({
                   className={`border-b border-ink-line/70 align-top last:border-b-0 ${chosen ? 'bg-clay-50' : 'hover:bg-paper'}`}
                 >
                   <th scope="row" className="px-2 py-1.5 text-left font-normal">
-                    <span className="inline-flex items-center gap-2 pt-1.5">
+                    <button
+                      type="button"
+                      className="inline-flex cursor-pointer items-center gap-2 rounded-sm pt-1.5 text-left hover:text-clay-700"
+                      onClick={() => onSelect(z.id)}
+                      title="Show this zone on the map"
+                    >
                       <span
                         aria-hidden
                         className="inline-block h-3 w-4 shrink-0 rounded-[2px] border border-ink/30"
@@ -109,7 +114,7 @@ export function RatesTable({
                       />
                       <span className="font-medium text-ink">{z.name}</span>
                       {z.isDefault ? <Badge>Default</Badge> : null}
-                    </span>
+                    </button>
                   </th>
                   <td className={`${num} pt-3`}>
                     {z.productivityIndex == null ? '—' : formatNumber(z.productivityIndex, 2)}
