@@ -231,7 +231,7 @@ describe('a prescription from zones to export, in the browser', () => {
     expect(west.properties.rate_si).toBeCloseTo(FIXED / M2_PER_AC, 9); // DOMAIN.md §1 (derived)
   });
 
-  it("a save that crosses someone else's keeps what was typed, lists it beside what is saved, and saves it over", async () => {
+  it("a save that crosses someone else's keeps what was typed, and saves it over; rates by rule fill the table", async () => {
     const { baseUrl } = world();
     const agronomist = w.callers.agronomist;
     const si = (perAc: number) => perAc / M2_PER_AC; // DOMAIN.md §1 (derived)
