@@ -1,0 +1,281 @@
+import { metresPerDegree } from '../geo/interpolate-idw';
+import {
+  CLEANING_STEPS,
+  CLEANING_STEP_LABELS,
+  type CleaningReport,
+  type CleaningSettings,
+} from '../schemas/as-applied.schema';
+import { type LogColumns, selectColumns, timeOrder } from './log-columns';
+import { OUT_OF_FIELD } from './zone-join';
+
+/**
+ * Cleaning an as-applied log in FORMATS.md's order (Sudduth & Drummond 2007; Simbahan et al. 2004; Colaço et
+ * al. 2014): each step looks only at the points the steps before it kept, and a point is counted against the
+ * first step that removes it.
+ */
+
+/* ---------------------------------------------------------------- local geometry, shared with the audit */
+
+/**
+ * Metres per degree of longitude and latitude at the log's mean latitude (WGS84 radii of curvature,
+ * {@link metresPerDegree}). A flat local approximation: over a field of 5 km north–south the scale at the
+ * ends differs from the middle by under 0.1 %, and distances between points seconds apart by far less.
+ */
+export function localScale(lat: Float64Array): { lon: number; lat: number } {
+  let sum = 0;
+  let count = 0;
+  const step = Math.max(1, Math.floor(lat.length / 10_000));
+  for (let i = 0; i < lat.length; i += step) {
+    if (Number.isFinite(lat[i])) {
+      sum += lat[i];
+      count++;
+    }
+  }
+  return metresPerDegree(count ? sum / count : 0);
+}
+
+/** Distance in metres between points i and j (local flat approximation, see {@link localScale}). */
+export function pointDistanceM(c: LogColumns, scale: { lon: number; lat: number }, i: number, j: number) {
+  const dx = (c.lon[j] - c.lon[i]) * scale.lon;
+  const dy = (c.lat[j] - c.lat[i]) * scale.lat;
+  return Math.sqrt(dx * dx + dy * dy);
+}
+
+/** Course over ground from point i to point j, degrees clockwise from north; NaN when they coincide. */
+function bearingDeg(c: LogColumns, scale: { lon: number; lat: number }, i: number, j: number) {
+  const dx = (c.lon[j] - c.lon[i]) * scale.lon;
+  const dy = (c.lat[j] - c.lat[i]) * scale.lat;
+  if (!(dx * dx + dy * dy > 1e-6)) return Number.NaN;
+  return (Math.atan2(dx, dy) * 180) / Math.PI;
+}
+
+/**
+ * The ground speed the log gives at point i, m/s: GNSS speed (the true speed over ground), else the single
+ * speed column, else wheel or radar speed; NaN when the log has none of them there.
+ */
+export function loggedSpeedAt(c: LogColumns, i: number): number {
+  const g = c.gnssMps ? c.gnssMps[i] : Number.NaN;
+  if (Number.isFinite(g)) return g;
+  const s = c.speedMps ? c.speedMps[i] : Number.NaN;
+  if (Number.isFinite(s)) return s;
+  const w = c.wheelMps ? c.wheelMps[i] : Number.NaN;
+  return Number.isFinite(w) ? w : Number.NaN;
+}
+
+/* ---------------------------------------------------------------- cleaning */
+
+export type CleanedLog = {
+  /** The log sorted by time (every point, removed ones too). */
+  columns: LogColumns;
+  /** The zone array in the same order, or null when none was given. */
+  zone: Int16Array | null;
+  /** 1 kept, 0 removed. */
+  keep: Uint8Array;
+  /** 0 kept, else 1 + the index in CLEANING_STEPS of the step that removed the point. */
+  removedBy: Uint8Array;
+  report: CleaningReport;
+};
+
+const STEP = Object.fromEntries(CLEANING_STEPS.map((s, i) => [s, i + 1])) as Record<
+  (typeof CLEANING_STEPS)[number],
+  number
+>;
+
+/** A number for a setting text: at most two decimals, no trailing zeros. */
+const num = (v: number) => String(Math.round(v * 100) / 100);
+
+/** The settings of each step in words (SI units). */
+export function cleaningSettingText(s: CleaningSettings, hasZones: boolean): Record<string, string> {
+  return {
+    'sort-dedupe': 'a repeated time keeps its first point; points without a time are dropped',
+    'work-off': 'work switch off, or no sections on',
+    speed: `${num(s.minSpeedMps)}–${num(s.maxSpeedMps)} m/s, at most ${num(s.maxAccelMps2)} m/s²`,
+    'pass-ends':
+      `first ${num(s.trimPassStartS)} s and last ${num(s.trimPassEndS)} s of each pass; ` +
+      `a gap over ${num(s.passGapS)} s starts a new pass; turning faster than ${num(s.turnDegPerS)}°/s`,
+    'target-change': `${num(s.afterTargetChangeS)} s after each change of target`,
+    plausibility: `applied ÷ target from ${num(s.plausibleRatioMin)} to ${num(s.plausibleRatioMax)}`,
+    boundary: !hasZones
+      ? 'no boundary given'
+      : s.clipToBoundary
+        ? 'points outside the boundary dropped'
+        : 'off: points outside the boundary kept',
+  };
+}
+
+/** Indexes sorted by time with points lacking a time at the end. */
+function sortOrder(t: Float64Array): Uint32Array {
+  let hasNaN = false;
+  for (let i = 0; i < t.length; i++) if (Number.isNaN(t[i])) hasNaN = true;
+  if (!hasNaN) return timeOrder(t);
+  const key = Float64Array.from(t, (v) => (Number.isNaN(v) ? Infinity : v));
+  return timeOrder(key);
+}
+
+const isIdentity = (order: Uint32Array) => {
+  for (let i = 0; i < order.length; i++) if (order[i] !== i) return false;
+  return true;
+};
+
+/** Signed smallest difference of two headings, degrees in (−180, 180]. */
+function headingDiff(a: number, b: number): number {
+  const d = ((((a - b) % 360) + 540) % 360) - 180;
+  return d === -180 ? 180 : d;
+}
+
+/**
+ * Cleans a log (FORMATS.md "As-applied logs", in this order):
+ * 1. sort by time; drop repeated times (the first point of a time stays) and points without a time;
+ * 2. work off: work switch 0, or sections on 0;
+ * 3. speed outside [min, max], or |Δv| / Δt above maxAccel against the previous point the steps before kept
+ *    (GNSS speed, else the single speed, else the wheel; else distance ÷ time from the positions);
+ * 4. pass ends: passes split at gaps over passGapS and at turns (heading, else course from the positions,
+ *    changing faster than turnDegPerS); turn points go, and so do the first trimPassStartS and the last
+ *    trimPassEndS seconds of each pass;
+ * 5. target change: the points less than afterTargetChangeS after each change of the logged target (changes
+ *    are seen on every timed point, planting or not: the controller follows the target all the time);
+ * 6. plausibility: applied ÷ target outside [plausibleRatioMin, plausibleRatioMax], or not a number;
+ * 7. boundary: zone === −2 (outside the field), when clipToBoundary and a zone array is given.
+ */
+export function cleanLog(c: LogColumns, settings: CleaningSettings, zone: Int16Array | null): CleanedLog {
+  if (zone && zone.length !== c.n) {
+    throw new RangeError(`The zone array has ${zone.length} entries for a log of ${c.n} points`);
+  }
+  const order = sortOrder(c.t);
+  const sorted = isIdentity(order);
+  const s = sorted ? c : selectColumns(c, order);
+  const z = zone ? (sorted ? zone : Int16Array.from(order, (i) => zone[i])) : null;
+  const n = s.n;
+  const t = s.t;
+  const removedBy = new Uint8Array(n);
+  const scale = localScale(s.lat);
+
+  // 1. Sort and drop repeated times.
+  for (let i = 0; i < n; i++) {
+    if (!Number.isFinite(t[i]) || (i > 0 && t[i] === t[i - 1])) removedBy[i] = STEP['sort-dedupe'];
+  }
+
+  // 2. Work off.
+  const { workOn, sectionsOn } = s;
+  if (workOn || sectionsOn) {
+    for (let i = 0; i < n; i++) {
+      if (removedBy[i]) continue;
+      if ((workOn && workOn[i] === 0) || (sectionsOn && sectionsOn[i] === 0)) removedBy[i] = STEP['work-off'];
+    }
+  }
+
+  // 3. Speed: range, then acceleration against the previous point the steps before kept.
+  {
+    let prev = -1;
+    let vPrev = Number.NaN;
+    for (let i = 0; i < n; i++) {
+      if (removedBy[i]) continue;
+      let v = loggedSpeedAt(s, i);
+      const dt = prev >= 0 ? t[i] - t[prev] : Number.NaN;
+      if (Number.isNaN(v) && prev >= 0) v = pointDistanceM(s, scale, prev, i) / dt;
+      if (v < settings.minSpeedMps || v > settings.maxSpeedMps) {
+        removedBy[i] = STEP.speed;
+      } else if (dt > 0 && Math.abs(v - vPrev) / dt > settings.maxAccelMps2) {
+        removedBy[i] = STEP.speed;
+      }
+      prev = i;
+      vPrev = v;
+    }
+  }
+
+  // 4. Pass ends and turns.
+  {
+    const seq = new Int32Array(n);
+    let m = 0;
+    for (let i = 0; i < n; i++) if (!removedBy[i]) seq[m++] = i;
+    const turn = new Uint8Array(m);
+    const newPass = new Uint8Array(m); // 1 where a pass starts at seq[q]
+    let hPrev = Number.NaN;
+    for (let q = 0; q < m; q++) {
+      const i = seq[q];
+      let h = s.heading ? s.heading[i] : Number.NaN;
+      if (q === 0) {
+        newPass[q] = 1;
+        hPrev = h;
+        continue;
+      }
+      const p = seq[q - 1];
+      const dt = t[i] - t[p];
+      if (dt > settings.passGapS) {
+        newPass[q] = 1;
+        hPrev = h; // the logged heading, never a course across the gap
+        continue;
+      }
+      if (Number.isNaN(h)) h = bearingDeg(s, scale, p, i);
+      if (Math.abs(headingDiff(h, hPrev)) / dt > settings.turnDegPerS) turn[q] = 1;
+      hPrev = h;
+    }
+    let q = 0;
+    while (q < m) {
+      if (turn[q]) {
+        removedBy[seq[q]] = STEP['pass-ends'];
+        q++;
+        continue;
+      }
+      // A pass: from q to the point before the next turn or new pass.
+      let e = q;
+      while (e + 1 < m && !turn[e + 1] && !newPass[e + 1]) e++;
+      const t0 = t[seq[q]];
+      const t1 = t[seq[e]];
+      for (let k = q; k <= e; k++) {
+        const tk = t[seq[k]];
+        if (tk - t0 < settings.trimPassStartS || t1 - tk < settings.trimPassEndS) {
+          removedBy[seq[k]] = STEP['pass-ends'];
+        }
+      }
+      q = e + 1;
+    }
+  }
+
+  // 5. Window after each change of target.
+  if (settings.afterTargetChangeS > 0) {
+    let last = Number.NaN;
+    let changedAt = -Infinity;
+    for (let i = 0; i < n; i++) {
+      if (removedBy[i] === STEP['sort-dedupe']) continue;
+      const v = s.target[i];
+      if (Number.isFinite(v)) {
+        if (Number.isFinite(last) && Math.abs(v - last) > 1e-9 * Math.max(Math.abs(v), Math.abs(last))) {
+          changedAt = t[i];
+        }
+        last = v;
+      }
+      if (!removedBy[i] && t[i] - changedAt < settings.afterTargetChangeS)
+        removedBy[i] = STEP['target-change'];
+    }
+  }
+
+  // 6. Plausibility of applied ÷ target.
+  for (let i = 0; i < n; i++) {
+    if (removedBy[i]) continue;
+    const r = s.applied[i] / s.target[i];
+    if (!(r >= settings.plausibleRatioMin && r <= settings.plausibleRatioMax)) {
+      removedBy[i] = STEP.plausibility;
+    }
+  }
+
+  // 7. Outside the boundary.
+  if (z && settings.clipToBoundary) {
+    for (let i = 0; i < n; i++) if (!removedBy[i] && z[i] === OUT_OF_FIELD) removedBy[i] = STEP.boundary;
+  }
+
+  const keep = new Uint8Array(n);
+  const removed = new Array<number>(CLEANING_STEPS.length).fill(0);
+  for (let i = 0; i < n; i++) {
+    if (removedBy[i]) removed[removedBy[i] - 1]++;
+    else keep[i] = 1;
+  }
+  const text = cleaningSettingText(settings, z !== null);
+  const report: CleaningReport = CLEANING_STEPS.map((step, k) => ({
+    step,
+    label: CLEANING_STEP_LABELS[step],
+    setting: text[step],
+    removed: removed[k],
+  }));
+  return { columns: s, zone: z, keep, removedBy, report };
+}
