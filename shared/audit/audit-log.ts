@@ -21,6 +21,11 @@ const HIST_STEP = 0.025;
 /** The "over" bin is reported up to 10, the largest plausibility limit a cleaning may keep. */
 const HIST_TOP = 10;
 const MAX_SERIES = 2000;
+/** Speed-source codes as local constants (they are read per point). */
+const UNKNOWN = SPEED_SOURCE_CODE.unknown;
+const WHEEL = SPEED_SOURCE_CODE.wheel;
+const RADAR = SPEED_SOURCE_CODE.radar;
+const GNSS = SPEED_SOURCE_CODE.gnss;
 
 /** Median of the positive time steps up to `gap` s (from at most about 20 000 evenly spaced steps). */
 function medianStep(t: Float64Array, gap: number): number {
@@ -79,62 +84,66 @@ export function pointAreas(
   return area;
 }
 
-/** Area-weighted sums per group (zones 0…G−1, then the field at G). */
+/** The sums kept per group, in this order, side by side in one array. */
+const A = 0;
+const AT = 1;
+const AP = 2;
+const AE2 = 3;
+const AR = 4;
+const AR2 = 5;
+const AIN = 6;
+const AOVER = 7;
+const AUNDER = 8;
+const COUNT = 9;
+const WIDTH = 10;
+
+/**
+ * Area-weighted sums per group: zones 0…G−1, then G for points in no zone, then G + 1 for the field (the sum of
+ * all the others, made by {@link Sums.finish}). One write per point.
+ */
 class Sums {
-  readonly a: Float64Array;
-  readonly aT: Float64Array;
-  readonly aP: Float64Array;
-  readonly aE2: Float64Array;
-  readonly aR: Float64Array;
-  readonly aR2: Float64Array;
-  readonly aIn: Float64Array;
-  readonly aOver: Float64Array;
-  readonly aUnder: Float64Array;
-  readonly count: Float64Array;
+  readonly s: Float64Array;
+  readonly field: number;
 
   constructor(
-    readonly groups: number,
+    groups: number,
     readonly band: number,
   ) {
-    const f = () => new Float64Array(groups + 1);
-    this.a = f();
-    this.aT = f();
-    this.aP = f();
-    this.aE2 = f();
-    this.aR = f();
-    this.aR2 = f();
-    this.aIn = f();
-    this.aOver = f();
-    this.aUnder = f();
-    this.count = f();
+    this.field = groups + 1;
+    this.s = new Float64Array((groups + 2) * WIDTH);
   }
 
+  /** g: a zone index, or −1 for no zone. */
   add(g: number, area: number, target: number, applied: number) {
-    this.addTo(this.groups, area, target, applied);
-    if (g >= 0) this.addTo(g, area, target, applied);
+    const s = this.s;
+    const o = (g >= 0 ? g : this.field - 1) * WIDTH;
+    const r = applied / target;
+    const e = applied - target;
+    s[o + COUNT]++;
+    s[o + A] += area;
+    s[o + AT] += area * target;
+    s[o + AP] += area * applied;
+    s[o + AE2] += area * e * e;
+    s[o + AR] += area * r;
+    s[o + AR2] += area * r * r;
+    const off = r - 1;
+    s[o + (off > this.band ? AOVER : off < -this.band ? AUNDER : AIN)] += area;
   }
 
-  private addTo(g: number, area: number, target: number, applied: number) {
-    const r = applied / target;
-    const off = r - 1;
-    this.count[g]++;
-    this.a[g] += area;
-    this.aT[g] += area * target;
-    this.aP[g] += area * applied;
-    this.aE2[g] += area * (applied - target) * (applied - target);
-    this.aR[g] += area * r;
-    this.aR2[g] += area * r * r;
-    if (off > this.band) this.aOver[g] += area;
-    else if (off < -this.band) this.aUnder[g] += area;
-    else this.aIn[g] += area;
+  finish(): this {
+    const f = this.field * WIDTH;
+    for (let o = 0; o < f; o += WIDTH) for (let k = 0; k < WIDTH; k++) this.s[f + k] += this.s[o + k];
+    return this;
   }
 
   stats(g: number, unitSize: number, price: number | null): AuditStats {
-    const a = this.a[g];
+    const s = this.s;
+    const o = g * WIDTH;
+    const a = s[o + A];
     if (!(a > 0)) {
       return {
         areaM2: 0,
-        points: this.count[g],
+        points: s[o + COUNT],
         meanTargetSi: 0,
         meanAppliedSi: 0,
         biasPct: 0,
@@ -148,23 +157,23 @@ class Sums {
         costDelta: price === null ? null : 0,
       };
     }
-    const meanT = this.aT[g] / a;
-    const meanP = this.aP[g] / a;
-    const meanR = this.aR[g] / a;
-    const varR = Math.max(0, this.aR2[g] / a - meanR * meanR);
-    const quantityDelta = this.aP[g] - this.aT[g];
+    const meanT = s[o + AT] / a;
+    const meanP = s[o + AP] / a;
+    const meanR = s[o + AR] / a;
+    const varR = Math.max(0, s[o + AR2] / a - meanR * meanR);
+    const quantityDelta = s[o + AP] - s[o + AT];
     const unitsDelta = quantityDelta / unitSize;
     return {
       areaM2: a,
-      points: this.count[g],
+      points: s[o + COUNT],
       meanTargetSi: meanT,
       meanAppliedSi: meanP,
       biasPct: meanT > 0 ? ((meanP - meanT) / meanT) * 100 : 0,
-      rmseSi: Math.sqrt(this.aE2[g] / a),
+      rmseSi: Math.sqrt(s[o + AE2] / a),
       cvPct: meanR > 0 ? (Math.sqrt(varR) / meanR) * 100 : 0,
-      inBandShare: this.aIn[g] / a,
-      areaOverM2: this.aOver[g],
-      areaUnderM2: this.aUnder[g],
+      inBandShare: s[o + AIN] / a,
+      areaOverM2: s[o + AOVER],
+      areaUnderM2: s[o + AUNDER],
       quantityDelta,
       unitsDelta,
       costDelta: price === null ? null : unitsDelta * price,
@@ -198,9 +207,9 @@ export type AuditOutput = Omit<AuditResult, 'findings'> & {
 };
 
 const SOURCE_BY_CODE: Record<number, 'wheel' | 'radar' | 'gnss' | undefined> = {
-  [SPEED_SOURCE_CODE.wheel]: 'wheel',
-  [SPEED_SOURCE_CODE.radar]: 'radar',
-  [SPEED_SOURCE_CODE.gnss]: 'gnss',
+  [WHEEL]: 'wheel',
+  [RADAR]: 'radar',
+  [GNSS]: 'gnss',
 };
 
 /**
@@ -240,13 +249,12 @@ export function auditLog(input: AuditInput): AuditOutput {
   const fallbackCode = SPEED_SOURCE_CODE[input.meteredOn];
   const sourceOf = (i: number) => {
     const code = speedSource ? speedSource[i] : 0;
-    return code === SPEED_SOURCE_CODE.unknown ? fallbackCode : code;
+    return code === UNKNOWN ? fallbackCode : code;
   };
   const areaBySource = new Float64Array(4);
   for (let i = 0; i < n; i++) if (keep[i] && area[i] > 0) areaBySource[sourceOf(i)] += area[i];
   const bothSpeeds = wheel !== null && gnss !== null;
-  const correct =
-    bothSpeeds && areaBySource[SPEED_SOURCE_CODE.wheel] + areaBySource[SPEED_SOURCE_CODE.radar] > 0;
+  const correct = bothSpeeds && areaBySource[WHEEL] + areaBySource[RADAR] > 0;
   const trueApplied = correct ? new Float64Array(n).fill(Number.NaN) : null;
 
   const logged = new Sums(G, bandFraction);
@@ -287,10 +295,7 @@ export function auditLog(input: AuditInput): AuditOutput {
     }
     if (trueApplied) {
       const src = sourceOf(i);
-      const truth =
-        speedsOk && (src === SPEED_SOURCE_CODE.wheel || src === SPEED_SOURCE_CODE.radar)
-          ? truePopulation(applied, w, v)
-          : applied;
+      const truth = speedsOk && (src === WHEEL || src === RADAR) ? truePopulation(applied, w, v) : applied;
       trueApplied[i] = truth;
       corrected.add(g, a, target, truth);
       loggedQ += a * applied;
@@ -298,10 +303,13 @@ export function auditLog(input: AuditInput): AuditOutput {
     }
   }
 
+  logged.finish();
+  corrected.finish();
+
   let speed: SpeedError | null = null;
   if (bothSpeeds) {
     let main = fallbackCode;
-    for (const code of [SPEED_SOURCE_CODE.wheel, SPEED_SOURCE_CODE.radar, SPEED_SOURCE_CODE.gnss]) {
+    for (const code of [WHEEL, RADAR, GNSS]) {
       if (areaBySource[code] > areaBySource[main]) main = code;
     }
     const hidden = trueQ - loggedQ;
@@ -326,8 +334,8 @@ export function auditLog(input: AuditInput): AuditOutput {
 
   return {
     bandFraction,
-    field: logged.stats(G, unitSize, pricePerUnit),
-    fieldTrue: trueApplied ? corrected.stats(G, unitSize, pricePerUnit) : null,
+    field: logged.stats(logged.field, unitSize, pricePerUnit),
+    fieldTrue: trueApplied ? corrected.stats(corrected.field, unitSize, pricePerUnit) : null,
     zones: zones.map((z, k) => ({
       zoneId: z.zoneId,
       name: z.name,

@@ -76,10 +76,17 @@ export type CleanedLog = {
   report: CleaningReport;
 };
 
-const STEP = Object.fromEntries(CLEANING_STEPS.map((s, i) => [s, i + 1])) as Record<
-  (typeof CLEANING_STEPS)[number],
-  number
->;
+/** removedBy code of each step: 1 + its index in CLEANING_STEPS (plain numbers: these run per point). */
+const code = (step: (typeof CLEANING_STEPS)[number]) => CLEANING_STEPS.indexOf(step) + 1;
+const SORT_DEDUPE = code('sort-dedupe');
+const WORK_OFF = code('work-off');
+const SPEED = code('speed');
+const PASS_ENDS = code('pass-ends');
+const TARGET_CHANGE = code('target-change');
+const PLAUSIBILITY = code('plausibility');
+const BOUNDARY = code('boundary');
+/** The zone of a point outside the boundary (zone-join.ts), as a local constant. */
+const OUTSIDE = OUT_OF_FIELD;
 
 /** A number for a setting text: at most two decimals, no trailing zeros. */
 const num = (v: number) => String(Math.round(v * 100) / 100);
@@ -152,7 +159,7 @@ export function cleanLog(c: LogColumns, settings: CleaningSettings, zone: Int16A
 
   // 1. Sort and drop repeated times.
   for (let i = 0; i < n; i++) {
-    if (!Number.isFinite(t[i]) || (i > 0 && t[i] === t[i - 1])) removedBy[i] = STEP['sort-dedupe'];
+    if (!Number.isFinite(t[i]) || (i > 0 && t[i] === t[i - 1])) removedBy[i] = SORT_DEDUPE;
   }
 
   // 2. Work off.
@@ -160,7 +167,7 @@ export function cleanLog(c: LogColumns, settings: CleaningSettings, zone: Int16A
   if (workOn || sectionsOn) {
     for (let i = 0; i < n; i++) {
       if (removedBy[i]) continue;
-      if ((workOn && workOn[i] === 0) || (sectionsOn && sectionsOn[i] === 0)) removedBy[i] = STEP['work-off'];
+      if ((workOn && workOn[i] === 0) || (sectionsOn && sectionsOn[i] === 0)) removedBy[i] = WORK_OFF;
     }
   }
 
@@ -174,9 +181,9 @@ export function cleanLog(c: LogColumns, settings: CleaningSettings, zone: Int16A
       const dt = prev >= 0 ? t[i] - t[prev] : Number.NaN;
       if (Number.isNaN(v) && prev >= 0) v = pointDistanceM(s, scale, prev, i) / dt;
       if (v < settings.minSpeedMps || v > settings.maxSpeedMps) {
-        removedBy[i] = STEP.speed;
+        removedBy[i] = SPEED;
       } else if (dt > 0 && Math.abs(v - vPrev) / dt > settings.maxAccelMps2) {
-        removedBy[i] = STEP.speed;
+        removedBy[i] = SPEED;
       }
       prev = i;
       vPrev = v;
@@ -213,7 +220,7 @@ export function cleanLog(c: LogColumns, settings: CleaningSettings, zone: Int16A
     let q = 0;
     while (q < m) {
       if (turn[q]) {
-        removedBy[seq[q]] = STEP['pass-ends'];
+        removedBy[seq[q]] = PASS_ENDS;
         q++;
         continue;
       }
@@ -225,7 +232,7 @@ export function cleanLog(c: LogColumns, settings: CleaningSettings, zone: Int16A
       for (let k = q; k <= e; k++) {
         const tk = t[seq[k]];
         if (tk - t0 < settings.trimPassStartS || t1 - tk < settings.trimPassEndS) {
-          removedBy[seq[k]] = STEP['pass-ends'];
+          removedBy[seq[k]] = PASS_ENDS;
         }
       }
       q = e + 1;
@@ -237,7 +244,7 @@ export function cleanLog(c: LogColumns, settings: CleaningSettings, zone: Int16A
     let last = Number.NaN;
     let changedAt = -Infinity;
     for (let i = 0; i < n; i++) {
-      if (removedBy[i] === STEP['sort-dedupe']) continue;
+      if (removedBy[i] === SORT_DEDUPE) continue;
       const v = s.target[i];
       if (Number.isFinite(v)) {
         if (Number.isFinite(last) && Math.abs(v - last) > 1e-9 * Math.max(Math.abs(v), Math.abs(last))) {
@@ -245,8 +252,7 @@ export function cleanLog(c: LogColumns, settings: CleaningSettings, zone: Int16A
         }
         last = v;
       }
-      if (!removedBy[i] && t[i] - changedAt < settings.afterTargetChangeS)
-        removedBy[i] = STEP['target-change'];
+      if (!removedBy[i] && t[i] - changedAt < settings.afterTargetChangeS) removedBy[i] = TARGET_CHANGE;
     }
   }
 
@@ -255,13 +261,13 @@ export function cleanLog(c: LogColumns, settings: CleaningSettings, zone: Int16A
     if (removedBy[i]) continue;
     const r = s.applied[i] / s.target[i];
     if (!(r >= settings.plausibleRatioMin && r <= settings.plausibleRatioMax)) {
-      removedBy[i] = STEP.plausibility;
+      removedBy[i] = PLAUSIBILITY;
     }
   }
 
   // 7. Outside the boundary.
   if (z && settings.clipToBoundary) {
-    for (let i = 0; i < n; i++) if (!removedBy[i] && z[i] === OUT_OF_FIELD) removedBy[i] = STEP.boundary;
+    for (let i = 0; i < n; i++) if (!removedBy[i] && z[i] === OUTSIDE) removedBy[i] = BOUNDARY;
   }
 
   const keep = new Uint8Array(n);

@@ -22,6 +22,9 @@ export type FindingsContext = {
 export const SPEED_ERROR_NEGLIGIBLE = 0.005;
 /** A zone smaller than this share of the audited area gets no sentence of its own. */
 const MIN_ZONE_SHARE = 0.01;
+/** More zones off than this get one summary sentence and only the farthest few named. */
+const MAX_ZONE_SENTENCES = 5;
+const ZONES_NAMED_WITH_SUMMARY = 3;
 
 type Severity = Finding['severity'];
 
@@ -88,11 +91,14 @@ export function findingsOf(r: Omit<AuditResult, 'findings'>, ctx: FindingsContex
     );
     add('note', 'info', 'The logged rate hides this: the controller believed it applied the target.');
     if (sp.areaSlipOver5PctM2 > 0) {
+      const where = `on ${area(sp.areaSlipOver5PctM2, ctx)} of ${area(r.field.areaM2, ctx)}`;
       add(
         'speed-source',
         'info',
-        `Wheel slip averaged ${pct(sp.meanSlip)} and passed 5 % on ${area(sp.areaSlipOver5PctM2, ctx)} ` +
-          `of ${area(r.field.areaM2, ctx)}.`,
+        sp.meteredOn === 'wheel' && sp.meanSlip >= 0
+          ? `Wheel slip averaged ${pct(sp.meanSlip)} and passed 5 % ${where}.`
+          : `The ${sp.meteredOn} read ${pct(sp.meanSlip)} ${sp.meanSlip > 0 ? 'fast' : 'slow'} against GNSS ` +
+              `on average, and more than 5 % off ${where}.`,
       );
     }
   } else if (sp && sp.meteredOn === 'gnss') {
@@ -146,7 +152,8 @@ export function findingsOf(r: Omit<AuditResult, 'findings'>, ctx: FindingsContex
     );
   }
 
-  // Zones.
+  // Zones: each one off target, or, when many are, a summary and the farthest few.
+  const offZones: { z: (typeof r.zones)[number]; s: AuditStats; e: number; sev: Severity }[] = [];
   for (const z of r.zones) {
     const s = corrected && z.statsTrue ? z.statsTrue : z.stats;
     if (!(s.areaM2 > 0)) {
@@ -156,13 +163,33 @@ export function findingsOf(r: Omit<AuditResult, 'findings'>, ctx: FindingsContex
     if (s.areaM2 < MIN_ZONE_SHARE * best.areaM2) continue;
     const e = s.biasPct / 100;
     const sev = severityOf(e, band);
-    if (sev === 'info') continue;
+    if (sev !== 'info') offZones.push({ z, s, e, sev });
+  }
+  const why = corrected ? ', corrected for the speed error' : '';
+  let listed = offZones;
+  if (offZones.length > MAX_ZONE_SENTENCES) {
+    const es = offZones.map((o) => o.e);
+    const lo = Math.min(...es);
+    const hi = Math.max(...es);
+    const signed = (e: number) => `${pct(e)} ${e > 0 ? 'more' : 'less'}`;
+    const spread =
+      lo > 0 || hi < 0
+        ? `${pct(lo > 0 ? lo : hi)} to ${signed(lo > 0 ? hi : lo)}`
+        : `${signed(lo)} to ${signed(hi)}`;
+    add(
+      'zone-off',
+      offZones.some((o) => o.sev === 'problem') ? 'problem' : 'notice',
+      `${offZones.length} of ${r.zones.length} zones were more than ${pct(band / 4)} off target, ` +
+        `from ${spread} than prescribed${why ? ` (${why.slice(2)})` : ''}.`,
+    );
+    listed = [...offZones].sort((a, b) => Math.abs(b.e) - Math.abs(a.e)).slice(0, ZONES_NAMED_WITH_SUMMARY);
+  }
+  for (const { z, s, e, sev } of listed) {
     add(
       'zone-off',
       sev,
       `${z.name} got ${pct(e)} ${e > 0 ? 'more' : 'less'} than prescribed ` +
-        `(${formatRate(s.meanAppliedSi, ctx.rateUnit, locale)} vs ${formatRate(s.meanTargetSi, ctx.rateUnit, locale)}` +
-        `${corrected ? ', corrected for the speed error' : ''}).`,
+        `(${formatRate(s.meanAppliedSi, ctx.rateUnit, locale)} vs ${formatRate(s.meanTargetSi, ctx.rateUnit, locale)}${why}).`,
       z.zoneId,
     );
   }

@@ -1,6 +1,8 @@
 import type { MultiPolygon } from 'geojson';
 import { GeoInputError } from '../geo/geo-input-error';
 import { metresPerDegree } from '../geo/interpolate-idw';
+// The same codes as the rate grid's cells (−1 in the field but no zone, −2 outside).
+import { IN_FIELD_NO_ZONE, OUT_OF_FIELD } from '../geo/rate-grid';
 
 /**
  * Which zone each log point lies in (DEVELOPERS.md "As-applied logs", PERFORMANCE.md "the raster zone join").
@@ -20,8 +22,10 @@ import { metresPerDegree } from '../geo/interpolate-idw';
  * latitude is a monotone function of it). Cost: O(cells + edges × cells they touch) to build, O(1) per point
  * away from edges.
  */
-export const IN_FIELD_NO_ZONE = -1;
-export const OUT_OF_FIELD = -2;
+export { IN_FIELD_NO_ZONE, OUT_OF_FIELD };
+/** Local copies: read per point. */
+const OUTSIDE: number = OUT_OF_FIELD;
+const NO_ZONE: number = IN_FIELD_NO_ZONE;
 
 /** Side of a grid cell, metres (cells straddling an edge cost a ray cast; smaller cells make fewer of them). */
 export const ZONE_JOIN_CELL_M = 2;
@@ -106,7 +110,7 @@ export function zoneIndexOf(
   checkPolygon(boundary, 'The field boundary');
   zones.forEach((z, i) => checkPolygon(z, `Zone ${i + 1}`));
   const n = lon.length;
-  const out = new Int16Array(n).fill(OUT_OF_FIELD);
+  const out = new Int16Array(n).fill(OUTSIDE);
 
   // The boundary's bounding box (all rings: a hole cannot lie outside its exterior anyway).
   let west = Infinity;
@@ -194,14 +198,14 @@ export function zoneIndexOf(
         }
       }
     }
-    let result = OUT_OF_FIELD;
+    let result = OUTSIDE;
     if (parity[0]) {
       let best = layers;
       for (let t = 0; t < nTouched; t++) {
         const L = touched[t];
         if (L > 0 && parity[L] && L < best) best = L;
       }
-      result = best < layers ? best - 1 : IN_FIELD_NO_ZONE;
+      result = best < layers ? best - 1 : NO_ZONE;
     }
     out[i] = result;
     for (let t = 0; t < nTouched; t++) parity[touched[t]] = 0;
@@ -248,7 +252,7 @@ function labelCells(e: Edges, rowStart: Int32Array, rowEdges: Int32Array, f: Fra
     }
     const ord = order.subarray(0, m).sort((a, b) => xs[a] - xs[b]);
     parity.fill(0);
-    let current = OUT_OF_FIELD;
+    let current = OUTSIDE;
     let col = 0;
     const rowBase = r * cols;
     for (let q = 0; q <= m; q++) {
@@ -302,7 +306,7 @@ function crossingX(e: Edges, k: number, y: number): number {
 
 /** The region for a parity state: first zone with odd parity, else in the field, else outside. */
 function regionOf(parity: Uint8Array, layers: number): number {
-  if (!parity[0]) return OUT_OF_FIELD;
+  if (!parity[0]) return OUTSIDE;
   for (let L = 1; L < layers; L++) if (parity[L]) return L - 1;
-  return IN_FIELD_NO_ZONE;
+  return NO_ZONE;
 }

@@ -3,10 +3,15 @@
  * other statistics on hand-built logs.
  */
 import { describe, expect, it } from 'vitest';
+import type { MultiPolygon } from 'geojson';
 import { auditLog, pointAreas, type AuditInput } from '../../shared/audit/audit-log';
+import { cleanLog } from '../../shared/audit/clean-log';
 import { emptyColumns, type LogColumns, SPEED_SOURCE_CODE } from '../../shared/audit/log-columns';
+import { syntheticLog } from '../../shared/audit/synthetic-log';
+import { zoneIndexOf } from '../../shared/audit/zone-join';
 import { metresPerDegree } from '../../shared/geo/interpolate-idw';
-import { auditResultSchema } from '../../shared/schemas/as-applied.schema';
+import { ringFromOffsets } from '../../shared/geo/offset-position';
+import { auditResultSchema, cleaningSettingsSchema } from '../../shared/schemas/as-applied.schema';
 import { mphToMps, perAcToPerM2, perM2ToPerAc } from '../../shared/units';
 
 const LON0 = -93.6;
@@ -259,5 +264,105 @@ describe('pointAreas', () => {
     expect(a[4]).toBeCloseTo(WIDTH * 3 * 1, 6); // 3 m/s × the median step of 1 s
     expect(a[5]).toBeCloseTo(WIDTH * 3 * 1, 6);
     expect(() => pointAreas(c, 0)).toThrow(/width must be positive/);
+  });
+});
+
+/* ------------------------------------------------------------------ synthetic logs, the whole chain */
+
+// A 400 m × 300 m field of our own (invented), 12 m swath at 2.5 m/s and 1 Hz: about 4 000 points.
+const ORIGIN: [number, number] = [-93.61, 41.99];
+const rectangle = (e0: number, n0: number, e1: number, n1: number): MultiPolygon => ({
+  type: 'MultiPolygon',
+  coordinates: [
+    [
+      ringFromOffsets(ORIGIN, [
+        [e0, n0],
+        [e1, n0],
+        [e1, n1],
+        [e0, n1],
+      ]),
+    ],
+  ],
+});
+const FIELD = rectangle(0, 0, 400, 300);
+const WEST_HALF = rectangle(-50, -50, 200, 350); // the western half of the field, and beyond it
+const TARGET = perAcToPerM2(34_000);
+const CLEANING = cleaningSettingsSchema.parse({});
+
+/** syntheticLog → zoneIndexOf → cleanLog → auditLog, with no zones (one rate everywhere). */
+function chain(faults: Parameters<typeof syntheticLog>[0]['faults'], cleaning = CLEANING, band = 0.15) {
+  const log = syntheticLog({
+    boundary: FIELD,
+    zones: [],
+    defaultTargetSi: TARGET,
+    swathM: 12,
+    speedMps: 2.5,
+    hz: 1,
+    startTime: T0,
+    seed: 7,
+    faults,
+  });
+  const zone = zoneIndexOf(log.lon, log.lat, [], FIELD);
+  const cleaned = cleanLog(log, cleaning, zone);
+  const result = auditLog({
+    columns: cleaned.columns,
+    keep: cleaned.keep,
+    zone: cleaned.zone!,
+    zones: [],
+    defaultTargetSi: TARGET,
+    bandFraction: band,
+    fallbackWidthM: 12,
+    meteredOn: 'gnss',
+    unitSize: 80_000,
+    pricePerUnit: 280,
+  });
+  return { log, cleaned, result };
+}
+
+/** Standard normal CDF by Abramowitz & Stegun 26.2.17 (|error| < 7.5e-8). */
+function phi(z: number): number {
+  const t = 1 / (1 + 0.2316419 * Math.abs(z));
+  const poly =
+    t * (0.31938153 + t * (-0.356563782 + t * (1.781477937 + t * (-1.821255978 + t * 1.330274429))));
+  const tail = (Math.exp((-z * z) / 2) / Math.sqrt(2 * Math.PI)) * poly;
+  return z >= 0 ? 1 - tail : tail;
+}
+
+describe('auditLog on synthetic logs', () => {
+  it('8 % slip over half the field: mean slip about 4 %, population error about 4.35 %', () => {
+    const { result: r, cleaned } = chain({ slip: { fraction: 0.08, where: WEST_HALF } });
+    expect(cleaned.keep.reduce((s, k) => s + k, 0)).toBeGreaterThan(3000);
+    expect(r.speed!.meteredOn).toBe('wheel'); // the log's speed-source column says wheel
+    // Half the area slips 8 %, half not at all: 0.5 × 8 % (derived); ±0.5 % for the half-way line and noise.
+    expect(Math.abs(r.speed!.meanSlip - 0.04)).toBeLessThanOrEqual(0.005);
+    // True ÷ logged over the field: 0.5 × 1/(1 − 0.08) + 0.5 × 1 − 1 = 4.35 % (derived); ±0.2 %.
+    const derived = 0.5 * (1 / (1 - 0.08)) + 0.5 - 1;
+    expect(Math.abs(r.speed!.populationError - derived)).toBeLessThanOrEqual(0.002);
+    // The log shows the target; the truth is above it by the population error.
+    expect(r.field.biasPct).toBeCloseTo(0, 9);
+    expect(r.fieldTrue!.biasPct / 100).toBeCloseTo(r.speed!.populationError, 9);
+    // About half the planted area slipped more than 5 %.
+    expect(Math.abs(r.speed!.areaSlipOver5PctM2 / r.field.areaM2 - 0.5)).toBeLessThanOrEqual(0.05);
+    // The area: about the field's 12 ha less the cleaned-off pass ends (400 × 300 m = 12 ha, derived).
+    expect(r.field.areaM2).toBeGreaterThan(0.85 * 120_000);
+    expect(r.field.areaM2).toBeLessThan(1.01 * 120_000);
+  });
+
+  it('noise only: in-band share is P(|Z| ≤ band / cv) of the normal distribution', () => {
+    const cv = 0.1;
+    const band = 0.15;
+    const { result: r, cleaned } = chain({ noiseCv: cv }, CLEANING, band);
+    const kept = cleaned.keep.reduce((s, k) => s + k, 0);
+    // P(|Z| ≤ 1.5) = 2Φ(1.5) − 1 = 0.8664 (derived; standard normal table).
+    const expected = 2 * phi(band / cv) - 1;
+    expect(expected).toBeCloseTo(0.8664, 4);
+    // Nearly equal weights: binomial standard error sqrt(p(1 − p)/n) ≈ 0.006; allow four of them.
+    const tolerance = 4 * Math.sqrt((expected * (1 - expected)) / kept);
+    expect(Math.abs(r.field.inBandShare - expected)).toBeLessThanOrEqual(tolerance);
+    // CV of applied ÷ target is the noise's 10 %; the bias within 4 standard errors of 0 (derived).
+    expect(Math.abs(r.field.cvPct - 10)).toBeLessThanOrEqual(0.5);
+    expect(Math.abs(r.field.biasPct)).toBeLessThanOrEqual(4 * (10 / Math.sqrt(kept)));
+    expect(r.speed!.meteredOn).toBe('gnss');
+    expect(r.fieldTrue).toBeNull();
   });
 });

@@ -4,10 +4,13 @@
  * turn, one pass west (times 0…119 s).
  */
 import { describe, expect, it } from 'vitest';
+import type { MultiPolygon } from 'geojson';
 import { cleanLog } from '../../shared/audit/clean-log';
 import { emptyColumns, type LogColumns } from '../../shared/audit/log-columns';
-import { OUT_OF_FIELD } from '../../shared/audit/zone-join';
+import { syntheticLog } from '../../shared/audit/synthetic-log';
+import { OUT_OF_FIELD, zoneIndexOf } from '../../shared/audit/zone-join';
 import { metresPerDegree } from '../../shared/geo/interpolate-idw';
+import { ringFromOffsets } from '../../shared/geo/offset-position';
 import { CLEANING_STEPS, cleaningSettingsSchema } from '../../shared/schemas/as-applied.schema';
 import { perAcToPerM2 } from '../../shared/units';
 
@@ -173,5 +176,80 @@ describe('cleanLog', () => {
     expect(Number.isNaN(r.columns.t[2])).toBe(true);
     expect(r.removedBy[2]).toBe(1);
     expect(() => cleanLog(c, DEFAULTS, new Int16Array(2))).toThrow(/2 entries for a log of 3 points/);
+  });
+});
+
+describe('cleanLog on a synthetic log', () => {
+  // A 400 m × 300 m field of our own (invented) with a zone across its middle; 12 m swath, 2.5 m/s, 1 Hz.
+  const origin: [number, number] = [-93.61, 41.99];
+  const rect = (e0: number, n0: number, e1: number, n1: number): MultiPolygon => ({
+    type: 'MultiPolygon',
+    coordinates: [
+      [
+        ringFromOffsets(origin, [
+          [e0, n0],
+          [e1, n0],
+          [e1, n1],
+          [e0, n1],
+        ]),
+      ],
+    ],
+  });
+  const field = rect(0, 0, 400, 300);
+  const zones = [{ geometry: rect(150, -10, 250, 310), targetSi: perAcToPerM2(38_000) }];
+  const make = (lagS: number) => {
+    const log = syntheticLog({
+      boundary: field,
+      zones,
+      defaultTargetSi: perAcToPerM2(32_000),
+      swathM: 12,
+      speedMps: 2.5,
+      hz: 1,
+      startTime: T0,
+      seed: 11,
+      faults: { lagS },
+    });
+    return {
+      log,
+      zone: zoneIndexOf(
+        log.lon,
+        log.lat,
+        zones.map((z) => z.geometry),
+        field,
+      ),
+    };
+  };
+
+  it('work off takes the turns, pass ends 3 + 2 s of each of the 25 passes; nothing else is bad', () => {
+    const { log, zone } = make(0);
+    const r = cleanLog(log, DEFAULTS, zone);
+    const count = (step: string) => r.report.find((s) => s.step === step)!.removed;
+    let turns = 0;
+    for (let i = 0; i < log.n; i++) turns += log.workOn![i] === 0 ? 1 : 0;
+    expect(turns).toBeGreaterThan(0);
+    expect(count('work-off')).toBe(turns);
+    for (let i = 0; i < r.columns.n; i++) {
+      if (r.columns.workOn![i] === 0) expect(r.removedBy[i]).toBe(2);
+    }
+    expect(count('pass-ends')).toBe(25 * 5); // 300 m ÷ 12 m = 25 passes; 3 s + 2 s at 1 Hz (derived)
+    expect(count('speed')).toBe(0);
+    expect(count('plausibility')).toBe(0);
+    expect(count('boundary')).toBe(0);
+    // Each pass crosses the zone twice: two changes of target, 3 points each (pass ends overlap none).
+    expect(count('target-change')).toBe(25 * 2 * 3);
+  });
+
+  it('the window after a change of target takes out a controller lag of 2 s', () => {
+    const { log, zone } = make(2);
+    const offTarget = (settings: typeof DEFAULTS) => {
+      const r = cleanLog(log, settings, zone);
+      let off = 0;
+      for (let i = 0; i < r.columns.n; i++) {
+        if (r.keep[i] && Math.abs(r.columns.applied[i] / r.columns.target[i] - 1) > 1e-12) off++;
+      }
+      return off;
+    };
+    expect(offTarget({ ...DEFAULTS, afterTargetChangeS: 0 })).toBe(25 * 2 * 2); // 2 lagging points a change
+    expect(offTarget(DEFAULTS)).toBe(0);
   });
 });

@@ -3,8 +3,17 @@
  * band a problem, over a quarter a notice).
  */
 import { describe, expect, it } from 'vitest';
+import type { MultiPolygon } from 'geojson';
+import { auditLog } from '../../shared/audit/audit-log';
+import { cleanLog } from '../../shared/audit/clean-log';
 import { findingsOf, type FindingsContext } from '../../shared/audit/findings';
-import type { AuditResult, AuditStats } from '../../shared/schemas/as-applied.schema';
+import { syntheticLog } from '../../shared/audit/synthetic-log';
+import { zoneIndexOf } from '../../shared/audit/zone-join';
+import {
+  type AuditResult,
+  type AuditStats,
+  cleaningSettingsSchema,
+} from '../../shared/schemas/as-applied.schema';
 import { acToM2, perAcToPerM2, perHaToPerM2 } from '../../shared/units';
 
 const IMPERIAL: FindingsContext = {
@@ -116,6 +125,49 @@ describe('findingsOf', () => {
     expect(findingsOf(base({ zones: [zone(3)] }), IMPERIAL).some((x) => x.kind === 'zone-off')).toBe(false);
   });
 
+  it('many zones off: one summary sentence, then the three farthest by name', () => {
+    const zones = [4, 5, 6, -7, 8, 9, 1].map((biasPct, k) => ({
+      zoneId: `z${k}`,
+      name: `Zone ${k + 1}`,
+      targetSi: perAcToPerM2(34_000),
+      stats: stats({
+        areaM2: acToM2(10),
+        meanAppliedSi: perAcToPerM2(34_000 * (1 + biasPct / 100)),
+        biasPct,
+      }),
+      statsTrue: null,
+    }));
+    const f = findingsOf(base({ zones }), IMPERIAL).filter((x) => x.kind === 'zone-off');
+    // Six of seven are over 15 % / 4 = 3.75 % off; 8 % and 9 % are over half the band (by hand).
+    expect(f[0]).toMatchObject({ severity: 'problem', zoneId: null });
+    expect(f[0].text).toBe(
+      '6 of 7 zones were more than 3.8 % off target, from 7.0 % less to 9.0 % more than prescribed.',
+    );
+    expect(f.slice(1).map((x) => x.zoneId)).toEqual(['z5', 'z4', 'z3']);
+  });
+
+  it('a radar reading off GNSS is not called wheel slip', () => {
+    const f = findingsOf(
+      base({
+        speed: {
+          ...wheelError,
+          meteredOn: 'radar',
+          meanSlip: -0.031,
+          populationError: -0.03,
+          areaSlipOver5PctM2: 4047,
+        },
+        fieldTrue: stats({}),
+      }),
+      IMPERIAL,
+    );
+    expect(f[0].text).toBe(
+      'The planter metered on radar speed: about 3.0 % less seed than the log shows, 41 units, $11,726.',
+    );
+    expect(f.find((x) => x.text.startsWith('The radar read'))!.text).toBe(
+      'The radar read 3.1 % slow against GNSS on average, and more than 5 % off on 1 ac of 80 ac.',
+    );
+  });
+
   it('metric units, euros, another product', () => {
     const ctx: FindingsContext = {
       rateUnit: 'seeds/ha',
@@ -193,5 +245,77 @@ describe('findingsOf', () => {
       IMPERIAL,
     );
     expect(f.find((x) => x.kind === 'coverage')).toMatchObject({ severity: 'notice', zoneId: 'z9' });
+  });
+});
+
+describe('findingsOf on a synthetic log', () => {
+  it('a zone held back by the disc limit is named with its figures', () => {
+    // About 400 m × 300 m at 42° N (invented), with a strip across its middle; corners in degrees.
+    const box = (w: number, so: number, e: number, n: number): MultiPolygon => ({
+      type: 'MultiPolygon',
+      coordinates: [
+        [
+          [
+            [w, so],
+            [e, so],
+            [e, n],
+            [w, n],
+            [w, so],
+          ],
+        ],
+      ],
+    });
+    const field = box(-93.61, 41.99, -93.6052, 41.9927);
+    const better = box(-93.6082, 41.989, -93.607, 41.9928);
+    const log = syntheticLog({
+      boundary: field,
+      zones: [{ geometry: better, targetSi: perAcToPerM2(38_000) }],
+      defaultTargetSi: perAcToPerM2(32_000),
+      faults: { discLimitSi: perAcToPerM2(36_000) },
+      seed: 5,
+      startTime: 1_760_000_000,
+      hz: 1,
+      speedMps: 2.5,
+      swathM: 12,
+    });
+    const cleaned = cleanLog(
+      log,
+      cleaningSettingsSchema.parse({}),
+      zoneIndexOf(log.lon, log.lat, [better], field),
+    );
+    const result = auditLog({
+      columns: cleaned.columns,
+      keep: cleaned.keep,
+      zone: cleaned.zone!,
+      zones: [{ zoneId: 'z1', name: 'Better ground', targetSi: perAcToPerM2(38_000) }],
+      defaultTargetSi: perAcToPerM2(32_000),
+      bandFraction: 0.15,
+      fallbackWidthM: 12,
+      meteredOn: 'gnss',
+      unitSize: 80_000,
+      pricePerUnit: 280,
+    });
+    const f = findingsOf(result, IMPERIAL);
+    // 36 000 ÷ 38 000 − 1 = −5.3 % (derived): over a quarter of ±15 %, under half.
+    expect(f.find((x) => x.kind === 'zone-off')).toEqual({
+      kind: 'zone-off',
+      severity: 'notice',
+      text: 'Better ground got 5.3 % less than prescribed (36,000 seeds/ac vs 38,000 seeds/ac).',
+      zoneId: 'z1',
+    });
+    // Metered on GNSS with both speeds in the log: slip as information only.
+    expect(f.find((x) => x.kind === 'speed-source')!.severity).toBe('info');
+    expect(f.some((x) => x.kind === 'note')).toBe(false);
+  });
+
+  it('a speed error over half the band is a problem', () => {
+    const f = findingsOf(
+      base({ speed: { ...wheelError, populationError: 0.111, unitsHidden: 130, costHidden: 36_400 } }),
+      IMPERIAL,
+    );
+    expect(f[0]).toMatchObject({ kind: 'speed-source', severity: 'problem' });
+    expect(f[0].text).toBe(
+      'The planter metered on wheel speed: about 11.1 % more seed than the log shows, 130 units, $36,400.',
+    );
   });
 });

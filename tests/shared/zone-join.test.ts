@@ -169,6 +169,37 @@ describe('zoneIndexOf', () => {
     expect(at(Number.NaN, 0.005)).toBe(OUT_OF_FIELD);
   });
 
+  it('stays exact on a field too large for the finest grid (coarser cells)', () => {
+    // About 25 km × 19 km: more than ZONE_JOIN_MAX_CELLS cells of 2 m, so the cells grow (derived).
+    const big = (cx: number, cy: number, r: number, k: number): MultiPolygon => ({
+      type: 'MultiPolygon',
+      coordinates: [
+        [
+          starRing(
+            cx,
+            cy,
+            Array.from({ length: 12 }, (_, i) => r * (0.6 + (0.4 * ((i * k) % 5)) / 4)),
+          ),
+        ],
+      ],
+    });
+    const boundary = big(LON0, LAT0, 0.15, 3);
+    const zones = [big(LON0 + 0.03, LAT0, 0.05, 2), big(LON0 - 0.04, LAT0 + 0.02, 0.04, 4)];
+    const lon = new Float64Array(5000);
+    const lat = new Float64Array(5000);
+    for (let i = 0; i < lon.length; i++) {
+      lon[i] = LON0 - 0.16 + (((i * 7919) % 5000) / 5000) * 0.32;
+      lat[i] = LAT0 - 0.12 + (((i * 104729) % 4999) / 4999) * 0.24;
+    }
+    const got = zoneIndexOf(lon, lat, zones, boundary);
+    const counts = new Map<number, number>();
+    for (let i = 0; i < lon.length; i++) {
+      expect(got[i]).toBe(naiveZone(lon[i], lat[i], zones, boundary));
+      counts.set(got[i], (counts.get(got[i]) ?? 0) + 1);
+    }
+    expect([...counts.keys()].sort((a, b) => a - b)).toEqual([-2, -1, 0, 1]); // every kind of answer was exercised
+  });
+
   it('says what is wrong with bad input', () => {
     const boundary: MultiPolygon = { type: 'MultiPolygon', coordinates: [] };
     expect(() => zoneIndexOf(new Float64Array(2), new Float64Array(3), [], boundary)).toThrow(
