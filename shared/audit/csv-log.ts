@@ -276,7 +276,7 @@ const WIDTH_UNIT_RE = {
 
 function unitLike(t: string): boolean {
   return (
-    /\b(seeds?|sds|kseeds?|ksds|k|ac|acre|ha|hectare|lbs?|kg|gal|l|deg|degrees?|ms|s|sec|secs|utc|iso|epoch|count|of total|%|fraction)\b/.test(
+    /\b(seeds?|sds|kseeds?|ksds|k|ac|acre|ha|hectare|lbs?|kg|gal|l|deg|degrees?|ms|s|sec|secs|utc|iso|epoch|count|of total|%|fraction|pa|kpa|inh2o|inhg|lbf|kgf|n|mm|cm)\b/.test(
       t,
     ) ||
     /\//.test(t) ||
@@ -400,8 +400,9 @@ export function suggestMapping(columns: string[], sample: string[][]): ColumnMap
       case 'time': {
         const first = sample.map((r) => (r[i] ?? '').trim()).find((s) => s !== '') ?? '';
         if (ISO_RE.test(first)) unit = 'iso';
-        else if (/\bms\b|millis/.test(unitSource) || Math.abs(median(values)) >= 1e11) unit = 'epoch-ms';
-        else unit = 'epoch-s';
+        else if (/\bms\b|millis/.test(unitSource)) unit = 'epoch-ms';
+        else if (/\b(s|sec|secs|seconds)\b/.test(unitSource)) unit = 'epoch-s';
+        else unit = Math.abs(median(values)) >= 1e11 ? 'epoch-ms' : 'epoch-s';
         break;
       }
       case 'target':
@@ -571,6 +572,8 @@ function readIsoTime(b: Uint8Array, p: number, end: number, delim: number): numb
   if (month === 2 && day === 29 && !(year % 4 === 0 && (year % 100 !== 0 || year % 400 === 0))) return -1;
   p += 10;
   let secs = 0;
+  let frac = 0;
+  let scale = 1;
   c = p < end ? b[p] : -1;
   if (c === 84 || c === 116 || (c === SPACE && two(b, p + 1, end) >= 0 && b[p + 3] === 58)) {
     const hh = two(b, p + 1, end);
@@ -583,10 +586,14 @@ function readIsoTime(b: Uint8Array, p: number, end: number, delim: number): numb
       if (ss < 0 || ss > 60) return -1;
       secs += ss;
       p += 3;
-      if (p < end && (b[p] === 46 || b[p] === COMMA) && p + 1 < end && b[p + 1] >= 48 && b[p + 1] <= 57) {
+      if (
+        p < end &&
+        (b[p] === 46 || (b[p] === COMMA && delim !== COMMA)) &&
+        p + 1 < end &&
+        b[p + 1] >= 48 &&
+        b[p + 1] <= 57
+      ) {
         p++;
-        let frac = 0;
-        let scale = 1;
         while (p < end && b[p] >= 48 && b[p] <= 57) {
           if (scale < 1e15) {
             frac = frac * 10 + (b[p] - 48);
@@ -594,7 +601,6 @@ function readIsoTime(b: Uint8Array, p: number, end: number, delim: number): numb
           }
           p++;
         }
-        secs += frac / scale;
       }
     }
     c = p < end ? b[p] : -1;
@@ -615,7 +621,10 @@ function readIsoTime(b: Uint8Array, p: number, end: number, delim: number): numb
   c = p < end ? b[p] : -1;
   while (c === SPACE || (c === TAB && delim !== TAB)) c = ++p < end ? b[p] : -1;
   if (!isEnd(c, delim)) return -1;
-  value = daysFromCivil(year, month, day) * 86_400 + secs;
+  // Whole seconds are exact; the fraction joins them in one rounding where the sum fits in 2^53.
+  const whole = daysFromCivil(year, month, day) * 86_400 + secs;
+  const scaled = whole * scale + frac;
+  value = scale === 1 ? whole : Math.abs(scaled) < 2 ** 53 ? scaled / scale : whole + frac / scale;
   return p;
 }
 

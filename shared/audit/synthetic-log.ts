@@ -269,13 +269,12 @@ export function syntheticLog(opts: SyntheticLogOptions): LogColumns {
       let tPrev = t;
       for (;;) {
         const vTrue = speedMps * (1 + SPEED_CV * gauss());
-        const lat = alongLon ? v : u;
-        const step = (vTrue * dt) / (alongLon ? mPerDegLon(lat) : mPerDegLat(lat));
+        const step = (vTrue * dt) / (alongLon ? mPerDegLon(v) : mPerDegLat(u));
         // The first point half a step inside the field.
         if (!emitted && u === uFirst) u += (dir * step) / 2;
         if (dir > 0 ? u > uLast : u < uLast) break;
         if (insideAt(inField, u)) {
-          const lon = alongLon ? u : v;
+          const [lon, lat] = alongLon ? [u, v] : [v, u];
           let target = defaultTargetSi;
           for (let z = 0; z < zc.length; z++) {
             const c = zc[z];
