@@ -29,6 +29,10 @@ const PRESCRIBING: NavGroup = {
     { to: '/seed-orders', label: 'Seed orders' },
   ],
 };
+const AFTER_PLANTING: NavGroup = {
+  label: 'After planting',
+  items: [{ to: '/logs', label: 'Logs and audits' }],
+};
 const WORKSPACE: NavGroup = {
   label: 'Workspace',
   items: [
@@ -63,7 +67,11 @@ export function AppRoot() {
   return (
     <ViewerProvider me={user}>
       <AppShell
-        nav={canManagePeople(user) ? [REGISTER, PRESCRIBING, WORKSPACE] : [REGISTER, PRESCRIBING]}
+        nav={
+          canManagePeople(user)
+            ? [REGISTER, PRESCRIBING, AFTER_PLANTING, WORKSPACE]
+            : [REGISTER, PRESCRIBING, AFTER_PLANTING]
+        }
         user={{ name: user.name, role: ROLE_LABELS[user.role], workspace: user.workspace.name }}
         busy={navigation.state === 'loading'}
         footer={

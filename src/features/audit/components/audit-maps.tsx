@@ -1,0 +1,215 @@
+import { Component, lazy, Suspense, useMemo, useState, type ReactNode } from 'react';
+import type { Audit, Log } from '@shared/schemas/as-applied.schema';
+import type { Prescription } from '@shared/schemas/prescription.schema';
+import { RATE_UNIT_DEFS, rateFromSi } from '@shared/rates/rate-units';
+import { speedToDisplay, speedUnitLabel, type UnitSystem } from '@shared/units';
+import { Checkbox } from '@/components/ui/input';
+import { MapLegend } from '@/components/map/legend';
+import { Segmented } from '@/components/ui/segmented';
+import { formatNumber } from '@/lib/format';
+import type { PointValues } from './audit-map-canvas';
+import { errorStops, legendStops, NO_VALUE, sequentialStops } from './map-colours';
+
+const AuditMapCanvas = lazy(() => import('./audit-map-canvas'));
+
+/** Says so when a map could not start (no WebGL) instead of a blank box; the tables still hold every figure. */
+class MapBoundary extends Component<{ children: ReactNode }, { error: Error | null }> {
+  state = { error: null as Error | null };
+  static getDerivedStateFromError(error: Error) {
+    return { error };
+  }
+  render() {
+    if (!this.state.error) return this.props.children;
+    return (
+      <div role="alert" className="rounded-card border border-danger/40 bg-danger-soft p-4 text-sm text-ink">
+        The map could not be drawn here ({this.state.error.message}). The tables below hold every figure.
+      </div>
+    );
+  }
+}
+
+const signed = (v: number, decimals = 0) =>
+  `${v > 0 ? '+' : v < 0 ? '−' : '±'}${formatNumber(Math.abs(v), decimals)}`;
+
+type Second = 'applied' | 'speed';
+
+/**
+ * The audit's maps: the error of every kept point (applied against target, or corrected for the speed
+ * error when the log had both speeds) beside the applied rate or the speed, each over the prescription's
+ * zone outlines, with legends.
+ */
+export function AuditMaps({
+  log,
+  audit,
+  prescription: rx,
+  system,
+}: {
+  log: Log;
+  audit: Audit;
+  prescription: Prescription;
+  system: UnitSystem;
+}) {
+  const [corrected, setCorrected] = useState(false);
+  const [second, setSecond] = useState<Second>('applied');
+  const hasTrue = audit.result.fieldTrue != null;
+  const bandPct = audit.bandFraction * 100;
+  const limit = 2 * bandPct;
+  const unit = rx.rateUnit;
+  const unitLabel = RATE_UNIT_DEFS[unit].label;
+  const rate = (si: number) => formatNumber(rateFromSi(si, unit), RATE_UNIT_DEFS[unit].decimals);
+  const speedLabel = speedUnitLabel(system);
+
+  const errStops = useMemo(() => errorStops(limit), [limit]);
+  const rateStops = useMemo(() => {
+    const rates = [rx.defaultRateSi, ...rx.zones.map((z) => z.rateSi)];
+    return sequentialStops(
+      Math.min(...rates) * (1 - audit.bandFraction * 2),
+      Math.max(...rates) * (1 + audit.bandFraction * 2),
+      'cividis',
+    );
+  }, [rx, audit.bandFraction]);
+  const speedStops = useMemo(() => {
+    const v = audit.result.speedSeries
+      .flatMap((s) => [s.gnssMps, s.wheelMps])
+      .filter((x): x is number => x != null)
+      .sort((a, b) => a - b);
+    const lo = v.length ? v[Math.floor(v.length * 0.02)] : (rx.planter?.speedMinMps ?? 1);
+    const hi = v.length ? v[Math.floor(v.length * 0.98)] : (rx.planter?.speedMaxMps ?? 4);
+    return sequentialStops(lo, hi > lo ? hi : lo + 1, 'viridis');
+  }, [audit.result.speedSeries, rx.planter]);
+
+  const zones = useMemo(() => rx.zones.map((z) => ({ id: z.id, geometry: z.geometry })), [rx.zones]);
+  const errorProperty = corrected && hasTrue ? 'true_err' : 'err';
+
+  const describe = (v: PointValues) => (
+    <>
+      {v.applied != null ? (
+        <span className="block font-mono">
+          Applied {rate(v.applied)} {unitLabel}
+        </span>
+      ) : null}
+      {v.target != null ? <span className="block font-mono">Target {rate(v.target)}</span> : null}
+      {v.err != null ? <span className="block font-mono">{signed(v.err, 1)} % as logged</span> : null}
+      {v.true_err != null ? (
+        <span className="block font-mono">{signed(v.true_err, 1)} % corrected</span>
+      ) : null}
+      {v.speed != null ? (
+        <span className="block font-mono">
+          {formatNumber(speedToDisplay(v.speed, system), 1)} {speedLabel}
+        </span>
+      ) : null}
+      {v.n != null && v.n > 1 ? <span className="block text-ink-soft">mean of {v.n} points</span> : null}
+    </>
+  );
+
+  const base = { unitSystem: system, logId: log.id, tileVersion: log.version, boundary: rx.boundary, zones };
+  const zoneEntry = {
+    key: 'zones',
+    colour: '#1f2630',
+    outline: 'dashed' as const,
+    label: 'Prescription zones',
+  };
+
+  const errLegend = (
+    <MapLegend
+      title={corrected && hasTrue ? 'Corrected − target (%)' : 'Applied − target (%)'}
+      entries={[
+        ...legendStops(errStops).map(([v, c], i) => ({
+          key: `e${i}`,
+          colour: c,
+          label:
+            i === 0
+              ? `${signed(v)} % or more (over)`
+              : i === 4
+                ? `${signed(v)} % or less (under)`
+                : v === 0
+                  ? 'On target'
+                  : `${signed(v)} %`,
+        })),
+        zoneEntry,
+      ]}
+      note={`Band ±${formatNumber(bandPct)} %; colours stop at twice the band.`}
+    />
+  );
+  const secondStops = second === 'applied' ? rateStops : speedStops;
+  const secondLegend = (
+    <MapLegend
+      title={second === 'applied' ? `Applied (${unitLabel})` : `Speed (${speedLabel})`}
+      entries={[
+        ...legendStops(secondStops).map(([v, c], i) => ({
+          key: `s${i}`,
+          colour: c,
+          label: second === 'applied' ? rate(v) : formatNumber(speedToDisplay(v, system), 1),
+        })),
+        { key: 'none', colour: NO_VALUE, label: 'No value' },
+        zoneEntry,
+      ]}
+    />
+  );
+
+  return (
+    <div className="grid gap-4 xl:grid-cols-2">
+      <div className="min-w-0 space-y-2">
+        <div className="flex min-h-9 flex-wrap items-center justify-between gap-2">
+          <h3 className="font-medium text-ink">Where it was off</h3>
+          {hasTrue ? (
+            <Checkbox
+              className="print:hidden"
+              label="Corrected for the speed error"
+              checked={corrected}
+              onChange={(e) => setCorrected(e.target.checked)}
+            />
+          ) : null}
+        </div>
+        <MapBoundary>
+          <Suspense fallback={<MapLoading />}>
+            <AuditMapCanvas
+              {...base}
+              label={`Error map of ${log.fieldName}`}
+              property={errorProperty}
+              stops={errStops}
+              describePoint={describe}
+              legend={errLegend}
+            />
+          </Suspense>
+        </MapBoundary>
+      </div>
+      <div className="min-w-0 space-y-2">
+        <div className="flex min-h-9 flex-wrap items-center justify-between gap-2">
+          <h3 className="font-medium text-ink">{second === 'applied' ? 'Applied rate' : 'Ground speed'}</h3>
+          <span className="print:hidden">
+            <Segmented<Second>
+              label="Second map"
+              value={second}
+              options={[
+                { value: 'applied', label: 'Applied rate' },
+                { value: 'speed', label: 'Speed' },
+              ]}
+              onChange={setSecond}
+            />
+          </span>
+        </div>
+        <MapBoundary>
+          <Suspense fallback={<MapLoading />}>
+            <AuditMapCanvas
+              {...base}
+              label={`${second === 'applied' ? 'Applied rate' : 'Speed'} map of ${log.fieldName}`}
+              property={second}
+              stops={secondStops}
+              describePoint={describe}
+              legend={secondLegend}
+            />
+          </Suspense>
+        </MapBoundary>
+      </div>
+    </div>
+  );
+}
+
+function MapLoading() {
+  return (
+    <div className="grid h-[440px] place-items-center rounded-card border border-ink-line bg-paper-sunk text-sm text-ink-soft">
+      Loading the map…
+    </div>
+  );
+}
