@@ -48,6 +48,8 @@ try {
     DATABASE_URL: db.url,
     JWT_SECRET: randomBytes(32).toString('base64url'),
     SOWRIGHT_CLIENT_DIR: path.join(ROOT, 'dist'),
+    // Log files of the demo and of every test app of this run, removed with the cluster.
+    SOWRIGHT_DATA_DIR: path.join(baseDir, 'files'),
   };
   runTsSync('server/db/cli.ts', ['seed'], env);
   if (wantsE2e) ensureClientBuild();

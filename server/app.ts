@@ -21,6 +21,8 @@ import { seasonRouter } from './routes/seasons/season.router';
 import { planterRouter } from './routes/planters/planter.router';
 import { zoneMapRouter } from './routes/zone-maps/zone-map.router';
 import { productRouter } from './routes/products/product.router';
+import { logRouter } from './routes/logs/log.router';
+import type { FileStore } from './logs/file-store';
 import { prescriptionRouter, seedOrderRouter } from './routes/prescriptions/prescription.router';
 import { importRouter } from './routes/imports/import.router';
 import { boundaryRouter } from './routes/fields/boundary.router';
@@ -38,6 +40,9 @@ export type AppDeps = {
   trustProxy?: number;
   /** Folder of the built client to serve, if any. */
   clientDir?: string;
+  /** Where log files are kept, and how a log import is queued (server/logs). */
+  files: FileStore;
+  enqueueLog: (logId: string) => Promise<void>;
 };
 
 /** Builds the whole app: middleware, routers and the one error handler. It never listens. */
@@ -83,6 +88,10 @@ export function createApp(deps: AppDeps): Express {
   app.use('/api/products', productRouter());
   app.use('/api/prescriptions', prescriptionRouter({ mailer: deps.mailer, appUrl: deps.appUrl }));
   app.use('/api/seed-orders', seedOrderRouter());
+  app.use(
+    '/api/logs',
+    logRouter({ files: deps.files, enqueue: deps.enqueueLog, mailer: deps.mailer, appUrl: deps.appUrl }),
+  );
   app.use('/api', (_req, _res, next) => next(new NotFoundError('Route')));
 
   if (deps.clientDir && existsSync(path.join(deps.clientDir, 'index.html'))) {

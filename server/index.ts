@@ -6,6 +6,9 @@ import { createApp } from './app';
 import { createSmtpMailer } from './mail/mailer';
 import { startSmtpFake, type Mailbox } from './mail/smtp-fake';
 import { APP_VERSION } from './lib/version';
+import { FileStore } from './logs/file-store';
+import { startLogJobs } from './logs/log-jobs';
+import { auditNotifier } from './routes/logs/log.mail';
 
 /** Listens, and shuts down cleanly on SIGINT/SIGTERM. Everything else lives in createApp(). */
 async function main() {
@@ -24,7 +27,17 @@ async function main() {
     from: env.MAIL_FROM,
   });
   const appUrl = env.APP_URL ?? `http://${env.SOWRIGHT_HOST}:${env.SOWRIGHT_PORT}`;
+  const files = new FileStore(env.SOWRIGHT_DATA_DIR);
+  const notify = auditNotifier(mailer, appUrl);
+  const logJobs = await startLogJobs({
+    sequelize,
+    databaseUrl: env.DATABASE_URL,
+    files,
+    onReady: (logId) => notify(logId, false),
+  });
   const app = createApp({
+    files,
+    enqueueLog: (logId) => logJobs.enqueue(logId),
     sequelize,
     jwtSecret: env.JWT_SECRET,
     mailer,
@@ -52,6 +65,7 @@ async function main() {
     process.stdout.write(`[api] ${signal}: closing\n`);
     server.closeIdleConnections();
     await new Promise<void>((resolve) => server.close(() => resolve()));
+    await logJobs.stop().catch(() => {});
     await mailbox?.close();
     await sequelize.close();
     process.exit(0);

@@ -17,6 +17,8 @@ const envSchema = z.object({
   SOWRIGHT_SMTP_HOST: z.string().default('127.0.0.1'),
   SOWRIGHT_SMTP_PORT: z.coerce.number().int().min(0).max(65535).default(4025),
   MAIL_FROM: z.string().default('Sowright <no-reply@sowright.invalid>'),
+  /** Where files too large for the database are kept (as-applied logs), content-addressed. */
+  SOWRIGHT_DATA_DIR: z.string().default('.data'),
   /** Serve the built client from this folder. */
   SOWRIGHT_CLIENT_DIR: z.string().optional(),
   /** Set when served over HTTPS: the cookie becomes __Host- prefixed and Secure. */

@@ -23,6 +23,7 @@ const STATUS: Record<string, number> = {
   check_not_accepted: 409,
   not_approved: 409,
   draft_exists: 409,
+  busy: 409,
   validation_failed: 400,
   invalid_geometry: 422,
   unreadable_file: 422,
@@ -74,11 +75,9 @@ export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
     return;
   }
   if (err instanceof OptimisticLockError) {
-    res
-      .status(409)
-      .json({
-        error: { code: 'stale', message: 'Someone else changed this record: reload it and try again' },
-      });
+    res.status(409).json({
+      error: { code: 'stale', message: 'Someone else changed this record: reload it and try again' },
+    });
     return;
   }
   if (err instanceof UniqueConstraintError) {
@@ -111,12 +110,10 @@ export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
     return;
   }
   console.warn(`[api] ${req.method} ${req.originalUrl} failed:`, err);
-  res
-    .status(500)
-    .json({
-      error: {
-        code: 'internal',
-        message: 'Something went wrong on our side. Try again; if it keeps happening, tell your admin',
-      },
-    });
+  res.status(500).json({
+    error: {
+      code: 'internal',
+      message: 'Something went wrong on our side. Try again; if it keeps happening, tell your admin',
+    },
+  });
 };

@@ -7,12 +7,20 @@ import { initModels } from '../../server/db/associations';
 import { createSmtpMailer } from '../../server/mail/mailer';
 import { startSmtpFake, type Mailbox } from '../../server/mail/smtp-fake';
 import type { Sequelize } from 'sequelize';
+import { mkdtemp, rm } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
+import { FileStore } from '../../server/logs/file-store';
+import { startLogJobs } from '../../server/logs/log-jobs';
+import { auditNotifier } from '../../server/routes/logs/log.mail';
 
 export type TestApp = {
   app: Express;
   sequelize: Sequelize;
   mailbox: Mailbox;
   jwtSecret: string;
+  files: FileStore;
+  enqueueLog(logId: string): Promise<void>;
   close(): Promise<void>;
 };
 
@@ -32,7 +40,20 @@ export async function startTestApp(opts: { trustProxy?: number } = {}): Promise<
     from: 'Sowright <test@sowright.invalid>',
   });
   const jwtSecret = randomBytes(32).toString('base64url');
+  // `npm test` gives the run one folder of log files (the demo's are there); otherwise one of our own.
+  const sharedDir = process.env.SOWRIGHT_DATA_DIR;
+  const dataDir = sharedDir ?? (await mkdtemp(path.join(tmpdir(), 'sowright-files-')));
+  const files = new FileStore(dataDir);
+  const notify = auditNotifier(mailer, 'http://sowright.test');
+  const logJobs = await startLogJobs({
+    sequelize,
+    databaseUrl: url,
+    files,
+    onReady: (id) => notify(id, false),
+  });
   const app = createApp({
+    files,
+    enqueueLog: (logId) => logJobs.enqueue(logId),
     sequelize,
     jwtSecret,
     mailer,
@@ -46,7 +67,11 @@ export async function startTestApp(opts: { trustProxy?: number } = {}): Promise<
     sequelize,
     mailbox,
     jwtSecret,
+    files,
+    enqueueLog: (logId: string) => logJobs.enqueue(logId),
     async close() {
+      await logJobs.stop();
+      if (!sharedDir) await rm(dataDir, { recursive: true, force: true });
       await mailbox.close();
       await sequelize.close();
     },

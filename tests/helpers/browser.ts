@@ -96,6 +96,8 @@ export async function startBrowserWorld(): Promise<BrowserWorld> {
       appUrl: baseUrl,
       version: 'test',
       clientDir,
+      files: t.files,
+      enqueueLog: t.enqueueLog,
     }),
   );
   const profile = mkdtempSync(path.join(os.tmpdir(), 'sowright-chromium-'));

@@ -11,6 +11,7 @@ import { createSequelize } from '../../server/db/sequelize';
 import { initModels } from '../../server/db/associations';
 import { createMigrator } from '../../server/db/umzug';
 import { createApp } from '../../server/app';
+import { FileStore } from '../../server/logs/file-store';
 import { makeWorld } from '../helpers/factory';
 import { upload } from './imports-support';
 
@@ -64,6 +65,8 @@ try {
     mailer: { send: async () => undefined } as never,
     appUrl: 'http://localhost',
     version: 'measure',
+    files: new FileStore(mkdtempSync(path.join(os.tmpdir(), 'sowright-measure-'))),
+    enqueueLog: () => Promise.reject(new Error('logs are not measured here')),
   });
   const w = await makeWorld(app, 'measure');
   // Warm the parse worker once, so the figures are of the import, not of starting a thread.

@@ -26,7 +26,7 @@ export const CANDIDATE_RADIUS_M = 50_000;
 const ext = (name: string) => (/\.([^./]+)$/.exec(name)?.[1] ?? '').toLowerCase();
 
 /** Which reader a file needs: zip magic first, then the extension for CSV, then the first character. */
-async function readAny(bytes: Uint8Array, fileName: string): Promise<ReadResult> {
+export async function readAny(bytes: Uint8Array, fileName: string): Promise<ReadResult> {
   const buf = Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength);
   if (buf.length >= 4 && buf.readUInt32LE(0) === 0x04034b50) return readZipped(buf, fileName);
   const e = ext(fileName);

@@ -1,0 +1,220 @@
+import { QueryTypes, type Sequelize } from 'sequelize';
+import pg from 'pg';
+import { from as copyFrom } from 'pg-copy-streams';
+import { pipeline } from 'node:stream/promises';
+import { Readable } from 'node:stream';
+import type { MultiPolygon } from 'geojson';
+import type { FileStore } from './file-store';
+import { runPipelineInWorker, LogReadError } from './pipeline-runner';
+import type { PipelineOutput } from './pipeline';
+import { cleaningSettingsSchema, columnMappingSchema } from '../../shared/schemas/as-applied.schema';
+import type { RateUnit } from '../../shared/rates/rate-units';
+import type { UnitSystem } from '../../shared/units';
+
+type LogContext = {
+  id: string;
+  workspaceId: string;
+  growerId: string;
+  status: string;
+  mapping: unknown;
+  cleaning: unknown;
+  meteredOn: 'wheel' | 'radar' | 'gnss';
+  sha256: string;
+  fileName: string;
+  format: 'csv' | 'geojson' | 'shapefile';
+  prescriptionId: string;
+  defaultRateSi: number;
+  rateUnit: RateUnit;
+  rowCount: number;
+  rowSpacingM: number;
+  productSnapshot: {
+    unitSize: number;
+    pricePerUnit: number | null;
+    currency: string;
+    unitName: string;
+    kind: 'seed' | 'other';
+  } | null;
+  band: number | null;
+  unitSystem: UnitSystem | null;
+  createdBy: string | null;
+};
+
+export type ImportDeps = {
+  sequelize: Sequelize;
+  databaseUrl: string;
+  files: FileStore;
+  /** Told when an audit is ready (e-mail to the grower's people). */
+  onReady?: (logId: string) => Promise<void>;
+};
+
+const ROWS_PER_CHUNK = 20_000;
+
+/** One COPY text row per point (tab separated, \N for missing). */
+function* copyRows(logId: string, out: PipelineOutput): Generator<string> {
+  const c = out.columns;
+  const v = (x: number | undefined) => (x === undefined || Number.isNaN(x) ? '\\N' : String(x));
+  let chunk = '';
+  for (let i = 0; i < c.n; i++) {
+    chunk += `${logId}\t${i}\t${c.t[i]}\t${c.lon[i]}\t${c.lat[i]}\t${v(c.target[i])}\t${v(c.applied[i])}\t${v(out.trueApplied?.[i])}\t${v(c.wheelMps?.[i])}\t${v(c.gnssMps?.[i])}\t${v(c.widthM?.[i])}\t${v(out.area[i])}\t${out.zone[i]}\t${out.removedBy[i]}\n`;
+    if ((i + 1) % ROWS_PER_CHUNK === 0) {
+      yield chunk;
+      chunk = '';
+    }
+  }
+  if (chunk) yield chunk;
+}
+
+async function contextOf(sequelize: Sequelize, logId: string): Promise<LogContext | null> {
+  const [row] = await sequelize.query<LogContext>(
+    `SELECT l.id, l.workspace_id AS "workspaceId", l.grower_id AS "growerId", l.status, l.mapping, l.cleaning,
+            l.metered_on AS "meteredOn", lf.sha256, lf.original_name AS "fileName", lf.format,
+            r.id AS "prescriptionId", r.default_rate_si AS "defaultRateSi", r.rate_unit AS "rateUnit",
+            pl.row_count AS "rowCount", pl.row_spacing_m AS "rowSpacingM", r.product_snapshot AS "productSnapshot",
+            a.band_fraction AS band, u.unit_system AS "unitSystem", l.created_by AS "createdBy"
+       FROM as_applied_logs l
+       JOIN log_files lf ON lf.id = l.file_id
+       JOIN prescriptions r ON r.id = l.prescription_id
+       JOIN planters pl ON pl.id = l.planter_id
+       LEFT JOIN audits a ON a.log_id = l.id
+       LEFT JOIN users u ON u.id = l.created_by
+      WHERE l.id = :logId`,
+    { replacements: { logId }, type: QueryTypes.SELECT },
+  );
+  return row ?? null;
+}
+
+/**
+ * The background import of one log (a pg-boss job): read the kept file in a worker thread, clean, join,
+ * audit; then store every point with COPY and the audit in ONE transaction, replacing what an earlier run
+ * stored. A failure at any step stores nothing and leaves the log `failed` with the line that broke.
+ */
+export async function importLog(deps: ImportDeps, logId: string) {
+  const { sequelize } = deps;
+  const ctx = await contextOf(sequelize, logId);
+  if (!ctx) return;
+  const setStatus = async (status: string, progress: number) => {
+    await sequelize.query(
+      `UPDATE as_applied_logs SET status = :status, progress = :progress,
+              started_at = COALESCE(started_at, now()), updated_at = now() WHERE id = :logId`,
+      { replacements: { status, progress, logId } },
+    );
+  };
+  try {
+    await sequelize.query(
+      `UPDATE as_applied_logs SET started_at = now(), finished_at = NULL, error = NULL WHERE id = :logId`,
+      {
+        replacements: { logId },
+      },
+    );
+    await setStatus('reading', 0);
+    const zones = await sequelize.query<{ zoneId: string; name: string; targetSi: number; geometry: string }>(
+      `SELECT id AS "zoneId", name, rate_si AS "targetSi", ST_AsGeoJSON(geometry, 15) AS geometry
+         FROM prescription_zones WHERE prescription_id = :id ORDER BY sort_order, name, id`,
+      { replacements: { id: ctx.prescriptionId }, type: QueryTypes.SELECT },
+    );
+    const [boundary] = await sequelize.query<{ geometry: string }>(
+      'SELECT ST_AsGeoJSON(boundary, 15) AS geometry FROM prescriptions WHERE id = :id',
+      { replacements: { id: ctx.prescriptionId }, type: QueryTypes.SELECT },
+    );
+    const product = ctx.productSnapshot ?? {
+      unitSize: 80_000,
+      pricePerUnit: null,
+      currency: 'USD',
+      unitName: 'unit',
+      kind: 'seed' as const,
+    };
+    const bytes = new Uint8Array(await deps.files.read(ctx.sha256));
+    let lastWrite = 0;
+    let pending: Promise<void> = Promise.resolve();
+    const output = await runPipelineInWorker(
+      {
+        bytes,
+        fileName: ctx.fileName,
+        format: ctx.format,
+        mapping: columnMappingSchema.parse(ctx.mapping),
+        cleaning: cleaningSettingsSchema.parse(ctx.cleaning ?? {}),
+        boundary: JSON.parse(boundary.geometry) as MultiPolygon,
+        zones: zones.map((z) => ({ ...z, geometry: JSON.parse(z.geometry) as MultiPolygon })),
+        defaultTargetSi: ctx.defaultRateSi,
+        bandFraction: ctx.band ?? 0.15,
+        fallbackWidthM: ctx.rowCount * ctx.rowSpacingM,
+        meteredOn: ctx.meteredOn,
+        unitSize: product.unitSize,
+        pricePerUnit: product.pricePerUnit,
+        findings: {
+          rateUnit: ctx.rateUnit,
+          unitSystem: ctx.unitSystem ?? 'imperial',
+          unitName: product.unitName,
+          currency: product.currency,
+          productKind: product.kind,
+        },
+      },
+      (stage, fraction) => {
+        const now = Date.now();
+        if (now - lastWrite < 400 && fraction !== 1) return;
+        lastWrite = now;
+        pending = pending.then(() => setStatus(stage, fraction)).catch(() => {});
+      },
+    );
+    await pending;
+    await setStatus('storing', 0);
+    await storeResults(deps, ctx, output);
+    await deps
+      .onReady?.(logId)
+      .catch((err: Error) => process.stderr.write(`[logs] ready mail: ${err.message}\n`));
+  } catch (err) {
+    // A reading error names its line; anything else (the database, the disk) stored nothing and says so.
+    const line = err instanceof LogReadError ? err.line : null;
+    const message =
+      err instanceof LogReadError
+        ? err.message
+        : `Storing the log failed (${(err as Error).message}); nothing of it was kept: run it again`;
+    await sequelize.query(
+      `UPDATE as_applied_logs SET status = 'failed', progress = 0, error = :error, finished_at = now(),
+              updated_at = now() WHERE id = :logId`,
+      { replacements: { logId, error: JSON.stringify({ line, message }) } },
+    );
+  }
+}
+
+/** Points (COPY) and the audit in one transaction on a connection of our own. */
+async function storeResults(deps: ImportDeps, ctx: LogContext, out: PipelineOutput) {
+  const client = new pg.Client({
+    connectionString: deps.databaseUrl,
+    application_name: 'sowright-log-import',
+  });
+  client.on('error', () => {});
+  await client.connect();
+  try {
+    await client.query('BEGIN');
+    await client.query('DELETE FROM as_applied_points WHERE log_id = $1', [ctx.id]);
+    const copy = client.query(
+      copyFrom(
+        'COPY as_applied_points (log_id, seq, t, lon, lat, target, applied, applied_true, wheel_mps, gnss_mps, width_m, area_m2, zone, removed_by) FROM STDIN',
+      ),
+    );
+    await pipeline(Readable.from(copyRows(ctx.id, out)), copy);
+    let kept = 0;
+    for (let i = 0; i < out.removedBy.length; i++) if (out.removedBy[i] === 0) kept++;
+    await client.query(
+      `INSERT INTO audits (workspace_id, grower_id, log_id, band_fraction, result)
+       VALUES ($1, $2, $3, $4, $5)
+       ON CONFLICT (log_id) DO UPDATE SET result = EXCLUDED.result, band_fraction = EXCLUDED.band_fraction,
+              version = audits.version + 1, updated_at = now()
+       WHERE audits.status = 'open'`,
+      [ctx.workspaceId, ctx.growerId, ctx.id, out.result.bandFraction, JSON.stringify(out.result)],
+    );
+    await client.query(
+      `UPDATE as_applied_logs SET status = 'ready', progress = 1, points_read = $2, points_kept = $3,
+              cleaning_report = $4, metered_on = $5, finished_at = now(), version = version + 1, updated_at = now()
+        WHERE id = $1`,
+      [ctx.id, out.pointsRead, kept, JSON.stringify(out.report), out.meteredOn],
+    );
+    await client.query('COMMIT');
+  } catch (err) {
+    await client.query('ROLLBACK').catch(() => {});
+    throw err;
+  } finally {
+    await client.end().catch(() => {});
+  }
+}

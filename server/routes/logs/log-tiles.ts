@@ -1,0 +1,42 @@
+import { QueryTypes } from 'sequelize';
+import { Prescription } from '../../db/associations';
+import { getLog } from './log.service';
+import type { Actor } from '../../types';
+
+/** Web Mercator world width, m (EPSG:3857). */
+const WORLD_M = 40_075_016.68557849;
+/** One aggregated point per tile pixel of a 256-pixel tile (PERFORMANCE.md: thin by zoom). */
+const CELLS_PER_TILE = 256;
+
+/**
+ * A Mapbox vector tile of a log's kept points, from PostGIS (ST_AsMVT), thinned to one averaged point per
+ * tile pixel, so a million points stay smooth at every zoom. Properties: err (logged applied vs target, %),
+ * true_err (the same after the speed-source correction, % — absent without both speeds), applied and
+ * target (SI), speed (GNSS, else wheel, m/s).
+ */
+export async function logTile(actor: Actor, logId: string, z: number, x: number, y: number): Promise<Buffer> {
+  await getLog(actor, logId);
+  const cell = WORLD_M / 2 ** z / CELLS_PER_TILE;
+  const [row] = await Prescription.sequelize!.query<{ tile: Buffer | null }>(
+    `WITH env AS (SELECT ST_TileEnvelope(:z, :x, :y) AS e),
+          box AS (SELECT ST_Transform(e, 4326) AS e4 FROM env),
+          pts AS (
+            SELECT ST_Transform(p.geom, 3857) AS g, p.target, p.applied, p.applied_true,
+                   COALESCE(p.gnss_mps, p.wheel_mps) AS speed
+              FROM as_applied_points p, box
+             WHERE p.log_id = :logId AND p.removed_by = 0 AND p.geom && box.e4),
+          cells AS (
+            SELECT ST_SnapToGrid(g, :cell) AS g, avg(target) AS target, avg(applied) AS applied,
+                   avg(applied_true) AS applied_true, avg(speed) AS speed, count(*) AS n
+              FROM pts GROUP BY 1)
+     SELECT ST_AsMVT(q, 'points', 4096, 'g') AS tile FROM (
+       SELECT ST_AsMVTGeom(c.g, env.e, 4096, 16, true) AS g,
+              round((100 * (c.applied - c.target) / NULLIF(c.target, 0))::numeric, 2)::float8 AS err,
+              round((100 * (c.applied_true - c.target) / NULLIF(c.target, 0))::numeric, 2)::float8 AS true_err,
+              c.applied::float8 AS applied, c.target::float8 AS target, c.speed::float8 AS speed, c.n::int AS n
+         FROM cells c, env) q
+      WHERE q.g IS NOT NULL`,
+    { replacements: { logId, z, x, y, cell }, type: QueryTypes.SELECT },
+  );
+  return row?.tile ?? Buffer.alloc(0);
+}
