@@ -50,7 +50,10 @@ function money(amount: number, currency: string, locale: string): string {
 function units(count: number, name: string, locale: string): string {
   const v = Math.abs(count);
   const digits = v < 10 ? 1 : 0;
-  return `${v.toLocaleString(locale, { maximumFractionDigits: digits, minimumFractionDigits: 0 })} ${name}`;
+  const shown = v.toLocaleString(locale, { maximumFractionDigits: digits, minimumFractionDigits: 0 });
+  // "1 unit", "5.4 units", "2 boxes" (English plural of the purchase unit's name).
+  const plural = shown === '1' ? name : /(s|x|z|ch|sh)$/.test(name) ? `${name}es` : `${name}s`;
+  return `${shown} ${plural}`;
 }
 
 function area(m2: number, ctx: FindingsContext): string {

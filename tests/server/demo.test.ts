@@ -74,6 +74,33 @@ describe('the demo', () => {
     expect(accepted).toBeLessThan(6);
   });
 
+  it('gives every demo field a log whose audit names its injected fault', async () => {
+    const agronomist = DEMO_USERS.find((u) => u.role === 'agronomist')!;
+    const caller = await signIn(t.app, agronomist.email, agronomist.password);
+    const logs = (await caller.get('/api/logs')).body.items as {
+      id: string;
+      fieldName: string;
+      status: string;
+    }[];
+    expect(new Set(logs.map((l) => l.fieldName)).size).toBe(6);
+    const findings: Record<string, { kind: string; text: string }[]> = {};
+    for (const l of logs) {
+      expect(l.status).toBe('ready');
+      findings[l.fieldName] = (await caller.get(`/api/logs/${l.id}/audit`)).body.result.findings;
+    }
+    // server/db/seeders/20261202-0004-demo-logs.ts: 8 % wheel slip → 1 / 0.92 − 1 = 8.7 % hidden (DOMAIN.md §5).
+    const nq = findings['North quarter'][0];
+    expect(nq.kind).toBe('speed-source');
+    expect(nq.text).toMatch(/wheel speed: about 8\.7 % more seed/);
+    // A radar reading 4 % fast over the field → 1 / 0.96 − 1 = 4.2 % (derived).
+    expect(findings['Long strip'][0].text).toMatch(/about 4\.2 % more seed/);
+    // The disc at its top speed in the highest-rate zone: about 8 % short there.
+    const short = findings['Schoolhouse forty'].find((f) => f.kind === 'zone-off');
+    expect(short?.text).toMatch(/Better ground got [78]\.\d % less than prescribed/);
+    // A field with noise only: on target.
+    expect(findings['West slope'].some((f) => /on target/.test(f.text))).toBe(true);
+  });
+
   it('is seeded once: running the seeders again adds nothing', async () => {
     const count = async () =>
       (
