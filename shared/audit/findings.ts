@@ -52,7 +52,8 @@ function units(count: number, name: string, locale: string): string {
   const digits = v < 10 ? 1 : 0;
   const shown = v.toLocaleString(locale, { maximumFractionDigits: digits, minimumFractionDigits: 0 });
   // "1 unit", "5.4 units", "2 boxes" (English plural of the purchase unit's name).
-  const plural = shown === '1' ? name : /(s|x|z|ch|sh)$/.test(name) ? `${name}es` : `${name}s`;
+  const plural =
+    shown === '1' || /s$/.test(name) ? name : /(x|z|ch|sh)$/.test(name) ? `${name}es` : `${name}s`;
   return `${shown} ${plural}`;
 }
 
