@@ -7,6 +7,7 @@ import { makeWorld, type World } from '../helpers/factory';
 import { auditSchema, CLEANING_STEPS } from '../../shared/schemas/as-applied.schema';
 import type { Prescription } from '../../shared/schemas/prescription.schema';
 import { getBytes } from './zone-maps.helpers';
+import { shapefileOf, zipShapefile } from './imports-support';
 import { approvedHalves, logCsvFor, mappingOf, preview, settled, uploadLog } from './logs.helpers';
 import { perAc } from './prescriptions.helpers';
 
@@ -296,5 +297,59 @@ describe('other formats', () => {
     const done = await settled(w.callers.farmer, res.body.id);
     expect(done.status, JSON.stringify(done.error)).toBe('ready');
     expect(done.pointsRead).toBe(features.length);
+  });
+
+  it('reads a zipped point shapefile (written by GDAL) with short dBASE column names mapped by hand', async () => {
+    const { bytes } = logCsvFor(rx, { noiseCv: 0.03 }, { seed: 99 });
+    const mapping = mappingOf(bytes);
+    const lines = bytes.toString('utf8').trim().split('\n');
+    const header = lines[0].split(',');
+    const col = (f: keyof typeof mapping.fields) => header.indexOf(mapping.fields[f]!.column);
+    // dBASE names are at most 10 characters: the person maps these short names to their meaning.
+    const short = { time: 'time', target: 'target', applied: 'applied' } as const;
+    const features = lines.slice(1).map((line) => {
+      const cells = line.split(',');
+      return {
+        type: 'Feature',
+        geometry: { type: 'Point', coordinates: [Number(cells[col('lon')]), Number(cells[col('lat')])] },
+        properties: {
+          [short.time]: cells[col('time')],
+          [short.target]: Number(cells[col('target')]),
+          [short.applied]: Number(cells[col('applied')]),
+        },
+      };
+    });
+    const zip = await zipShapefile(
+      shapefileOf({ type: 'FeatureCollection', features }, { layer: 'planting' }),
+      'planting',
+    );
+    const p = await preview(w.callers.farmer, rx.id, zip, 'planting.zip');
+    expect(p.status, JSON.stringify(p.body)).toBe(200);
+    expect(p.body.format).toBe('shapefile');
+    expect(p.body.columns).toEqual(
+      expect.arrayContaining(['longitude', 'latitude', 'time', 'target', 'applied']),
+    );
+    const res = await w.callers.farmer.post('/api/logs', {
+      fileId: p.body.fileId,
+      prescriptionId: rx.id,
+      planterId: rx.planter!.id,
+      mapping: {
+        fields: {
+          time: { column: 'time', unit: mapping.fields.time!.unit },
+          lon: { column: 'longitude', unit: null },
+          lat: { column: 'latitude', unit: null },
+          target: { column: 'target', unit: mapping.fields.target!.unit },
+          applied: { column: 'applied', unit: mapping.fields.applied!.unit },
+        },
+        rows: [],
+      },
+      meteredOn: 'gnss',
+    });
+    expect(res.status, JSON.stringify(res.body)).toBe(201);
+    const done = await settled(w.callers.farmer, res.body.id);
+    expect(done.status, JSON.stringify(done.error)).toBe('ready');
+    expect(done.pointsRead).toBe(features.length);
+    const audit = auditSchema.parse((await w.callers.farmer.get(`/api/logs/${res.body.id}/audit`)).body);
+    expect(Math.abs(audit.result.field.biasPct)).toBeLessThan(1);
   });
 });
