@@ -9,7 +9,7 @@ import {
 } from '../schemas/as-applied.schema';
 import { RATE_UNIT_DEFS, type RateUnit } from '../rates/rate-units';
 import { M_PER_FT, M_PER_IN, MPS_PER_MPH } from '../units';
-import { SPEED_SOURCE_CODE, type LogColumns, type RowColumn } from './log-columns';
+import { SPEED_SOURCE_CODE, type LogColumns } from './log-columns';
 
 /**
  * As-applied logs as CSV: the header and a suggested column mapping, the hot-path parse into typed columns
@@ -473,33 +473,24 @@ function readNumber(b: Uint8Array, p: number, end: number, delim: number, decima
     neg = c === 45;
     c = ++p < end ? b[p] : -1;
   }
+  // Digits build an integer mantissa; exact while it stays within 2^53 (checked once, at the end).
   let mant = 0;
-  let sig = 0;
-  let exp = 0;
-  let digits = 0;
-  let exact = true;
+  const intStart = p;
   while (c >= 48 && c <= 57) {
-    if (sig < 15) {
-      mant = mant * 10 + (c - 48);
-      if (mant !== 0) sig++;
-    } else {
-      exp++;
-      if (c !== 48) exact = false;
-    }
-    digits++;
+    mant = mant * 10 + (c - 48);
     c = ++p < end ? b[p] : -1;
   }
+  let digits = p - intStart;
+  let exp = 0;
   if (c === 46 || (c === COMMA && decimalComma)) {
-    c = ++p < end ? b[p] : -1;
+    const fracStart = ++p;
+    c = p < end ? b[p] : -1;
     while (c >= 48 && c <= 57) {
-      if (sig < 15) {
-        mant = mant * 10 + (c - 48);
-        exp--;
-        if (mant !== 0) sig++;
-      } else if (c !== 48) exact = false;
-      digits++;
+      mant = mant * 10 + (c - 48);
       c = ++p < end ? b[p] : -1;
     }
+    digits += p - fracStart;
+    exp = fracStart - p;
   }
   if (digits === 0) return -1;
   if (c === 101 || c === 69) {
@@ -522,7 +513,7 @@ function readNumber(b: Uint8Array, p: number, end: number, delim: number, decima
   const stop = p;
   while (c === SPACE || (c === TAB && delim !== TAB)) c = ++p < end ? b[p] : -1;
   if (!isEnd(c, delim)) return -1;
-  if (!exact || exp > 22 || exp < -22) {
+  if (mant > Number.MAX_SAFE_INTEGER || exp > 22 || exp < -22) {
     value = slowNumber(b, start, stop, decimalComma);
     return p;
   }
@@ -718,6 +709,9 @@ function readWork(b: Uint8Array, p: number, end: number, delim: number, decimalC
 /** Longer lines are refused (FORMATS.md: a line-length cap). */
 export const DEFAULT_MAX_LINE_BYTES = 64 * 1024;
 
+const NO_NUMBERS = new Float64Array(0);
+const NO_CODES = new Uint8Array(0);
+
 const K_SKIP = 0;
 const K_NUMBER = 1;
 const K_ISO = 2;
@@ -729,7 +723,9 @@ type Plan = {
   /** value × mul ÷ div converts to SI (one of them 1: the same operation as shared/units.ts). */
   mul: Float64Array;
   div: Float64Array;
-  out: (Float64Array | Uint8Array | null)[];
+  /** Where each column's values go: numbers and times in `num`, codes (speed source, work) in `code`. */
+  num: Float64Array[];
+  code: Uint8Array[];
   what: string[];
 };
 
@@ -796,7 +792,8 @@ function makePlan(mapping: ColumnMapping, columns: string[], out: LogColumns): P
     kind: new Uint8Array(n),
     mul: new Float64Array(n).fill(1),
     div: new Float64Array(n).fill(1),
-    out: new Array(n).fill(null),
+    num: new Array(n).fill(NO_NUMBERS),
+    code: new Array(n).fill(NO_CODES),
     what: columns,
   };
   for (const [f, spec] of Object.entries(mapping.fields) as [LogField, FieldSpec][]) {
@@ -810,12 +807,14 @@ function makePlan(mapping: ColumnMapping, columns: string[], out: LogColumns): P
             ? K_WORK
             : K_NUMBER;
     [plan.mul[i], plan.div[i]] = siFactor(f, spec.unit);
-    plan.out[i] = out[OUT_KEY[f]] as Float64Array | Uint8Array;
+    const target = out[OUT_KEY[f]];
+    if (target instanceof Uint8Array) plan.code[i] = target;
+    else plan.num[i] = target as Float64Array;
   }
   (mapping.rows ?? []).forEach((r, k) => {
     const i = columns.indexOf(r.column);
     plan.kind[i] = K_NUMBER;
-    plan.out[i] = out.rows[k].values;
+    plan.num[i] = out.rows[k].values;
   });
   return plan;
 }
@@ -842,28 +841,45 @@ function allocate(mapping: ColumnMapping, cap: number): LogColumns {
   };
 }
 
-/** Cuts every column to n points (copies, so no oversized buffer stays alive). */
-function shrink(c: LogColumns, n: number): LogColumns {
-  const cut = <T extends Float64Array | Uint8Array>(a: T | null): T | null =>
-    a === null ? null : a.length === n ? a : (a.slice(0, n) as T);
-  return {
-    n,
-    t: cut(c.t)!,
-    lon: cut(c.lon)!,
-    lat: cut(c.lat)!,
-    heading: cut(c.heading),
-    target: cut(c.target)!,
-    applied: cut(c.applied)!,
-    speedMps: cut(c.speedMps),
-    wheelMps: cut(c.wheelMps),
-    gnssMps: cut(c.gnssMps),
-    speedSource: cut(c.speedSource),
-    widthM: cut(c.widthM),
-    sectionsOn: cut(c.sectionsOn),
-    workOn: cut(c.workOn),
-    rows: c.rows.map((r): RowColumn => ({ ...r, values: cut(r.values)! })),
-  };
+const ARRAY_KEYS = [
+  't',
+  'lon',
+  'lat',
+  'heading',
+  'target',
+  'applied',
+  'speedMps',
+  'wheelMps',
+  'gnssMps',
+  'speedSource',
+  'widthM',
+  'sectionsOn',
+  'workOn',
+] as const;
+
+/** The log with every array (per-row ones too) passed through `f`, holding n points. */
+function mapArrays(
+  c: LogColumns,
+  n: number,
+  f: <T extends Float64Array | Uint8Array>(a: T) => T,
+): LogColumns {
+  const out: LogColumns = { ...c, n, rows: c.rows.map((r) => ({ ...r, values: f(r.values) })) };
+  const slots = out as Record<(typeof ARRAY_KEYS)[number], Float64Array | Uint8Array | null>;
+  for (const k of ARRAY_KEYS) slots[k] = c[k] ? f(c[k]) : null;
+  return out;
 }
+
+/** The same columns in arrays of `cap` points, values copied. */
+const grown = (c: LogColumns, cap: number) =>
+  mapArrays(c, c.n, (a) => {
+    const b = new (a.constructor as { new (n: number): typeof a })(cap);
+    b.set(a);
+    return b;
+  });
+
+/** Every column cut to n points (copies, so no oversized buffer stays alive). */
+const shrink = (c: LogColumns, n: number) =>
+  mapArrays(c, n, (a) => (a.length === n ? a : (a.slice(0, n) as typeof a)));
 
 /** Reads field `col` of point `n` from [p, end); returns the end of the field or −1. */
 function readField(
@@ -878,12 +894,19 @@ function readField(
 ): number {
   const k = plan.kind[col];
   let q: number;
-  if (k === K_NUMBER) q = readNumber(b, p, end, delim, decimalComma);
-  else if (k === K_SKIP) return fieldEnd(b, p, end, delim);
-  else if (k === K_ISO) q = readIsoTime(b, p, end, delim);
-  else if (k === K_SOURCE) q = readSource(b, p, end, delim);
-  else q = readWork(b, p, end, delim, decimalComma);
-  if (q >= 0) plan.out[col]![n] = k === K_NUMBER ? (value * plan.mul[col]) / plan.div[col] : value;
+  if (k === K_NUMBER) {
+    q = readNumber(b, p, end, delim, decimalComma);
+    if (q >= 0) plan.num[col][n] = (value * plan.mul[col]) / plan.div[col];
+    return q;
+  }
+  if (k === K_SKIP) return fieldEnd(b, p, end, delim);
+  if (k === K_ISO) {
+    q = readIsoTime(b, p, end, delim);
+    if (q >= 0) plan.num[col][n] = value;
+    return q;
+  }
+  q = k === K_SOURCE ? readSource(b, p, end, delim) : readWork(b, p, end, delim, decimalComma);
+  if (q >= 0) plan.code[col][n] = value;
   return q;
 }
 
@@ -951,15 +974,26 @@ export function parseLogCsv(
   const delim = delimiter.charCodeAt(0);
   const decimalComma = delimiter === ';';
 
-  // Counting the line breaks first (a native scan) sizes the columns exactly for the usual file.
-  let breaks = 0;
-  for (let i = b.indexOf(LF, header.dataStart); i >= 0; i = b.indexOf(LF, i + 1)) breaks++;
-  const cap = breaks + 1;
-  const out = allocate(mapping, cap);
-  const plan = makePlan(mapping, columns, out);
-  const tCol = out.t;
-  const lonCol = out.lon;
-  const latCol = out.lat;
+  // Sized from the lines in the first MiB (a file's lines are much alike), grown by half when it runs out.
+  const probeEnd = Math.min(len, header.dataStart + (1 << 20));
+  let probeLines = 1;
+  for (let i = b.indexOf(LF, header.dataStart); i >= 0 && i < probeEnd; i = b.indexOf(LF, i + 1))
+    probeLines++;
+  let cap =
+    Math.ceil(((len - header.dataStart) / Math.max(1, probeEnd - header.dataStart)) * probeLines * 1.02) + 64;
+  let out = allocate(mapping, cap);
+  let plan = makePlan(mapping, columns, out);
+  let tCol = out.t;
+  let lonCol = out.lon;
+  let latCol = out.lat;
+  const grow = () => {
+    cap = Math.ceil(cap * 1.5) + 64;
+    out = grown(out, cap);
+    plan = makePlan(mapping, columns, out);
+    tCol = out.t;
+    lonCol = out.lon;
+    latCol = out.lat;
+  };
   const last = columns.length - 1;
   const skipped = { count: 0, lines: [] as number[] };
 
@@ -972,6 +1006,7 @@ export function parseLogCsv(
   while (p < len) {
     const lineStart = p;
     if ((line & 0xffff) === 0) opts.onProgress?.(p / len);
+    if (n === cap) grow();
     let c = b[p];
     if (c === LF || (c === CR && (p + 1 === len || b[p + 1] === LF))) {
       p += c === CR ? 2 : 1; // a blank line
