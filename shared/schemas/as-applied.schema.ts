@@ -219,6 +219,129 @@ export const findingSchema = z.object({
 });
 export type Finding = z.infer<typeof findingSchema>;
 
+/* ---------------------------------------------------------------- diagnostics (DOMAIN.md §4–§7) */
+
+export const alarmSchema = z.object({
+  startT: z.number(),
+  endT: z.number(),
+  durationS: z.number(),
+  lon: z.number(),
+  lat: z.number(),
+  /** Zone index (as the zone join gives it) where it began: −1 no zone, −2 outside. */
+  zone: z.number().int(),
+  direction: z.enum(['over', 'under']),
+});
+export const alarmReplaySchema = z.object({
+  bandFraction: z.number(),
+  delayS: z.number(),
+  /** At most 500 listed; `count` has them all. */
+  alarms: z.array(alarmSchema),
+  count: z.number().int(),
+  outOfBandTimeS: z.number(),
+  outOfBandAreaM2: z.number(),
+  /** Out of band while no alarm sounded (episodes shorter than the delay, and each alarm's first seconds). */
+  unreportedTimeS: z.number(),
+  unreportedAreaM2: z.number(),
+});
+export type AlarmReplay = z.infer<typeof alarmReplaySchema>;
+
+export const controllerLagSchema = z.object({
+  /** Target steps used (a change of at least 5 % held for a few seconds on both sides). */
+  transitions: z.number().int(),
+  /** Median latency, s; null when no usable transition. */
+  latencyS: z.number().nullable(),
+  /** Interquartile range of the per-transition latencies, s. */
+  spreadS: z.number().nullable(),
+  /** Distance planted at the old rate at each zone edge: median speed × latency (DOMAIN.md §6). */
+  metresAtOldRate: z.number().nullable(),
+  /** Area and quantity planted at the old rate over all transitions. */
+  areaAffectedM2: z.number(),
+  quantityAffected: z.number(),
+  /** How far ahead a controller would have to look to compensate (= the latency), s. */
+  leadS: z.number().nullable(),
+  perTransition: z.array(z.object({ t: z.number(), latencyS: z.number() })),
+});
+export type ControllerLag = z.infer<typeof controllerLagSchema>;
+
+export const discLimitSchema = z.object({
+  zones: z.array(
+    z.object({
+      zoneId: z.string(),
+      name: z.string(),
+      targetSi: z.number(),
+      /** Area where applied fell short by more than half the band while the disc was at its top rpm at the driven speed. */
+      areaM2: z.number(),
+      shortfallPct: z.number(),
+      drivenSpeedMps: z.number(),
+      /** The speed at which the disc would have delivered the target (DOMAIN.md §4). */
+      fastestSpeedMps: z.number(),
+    }),
+  ),
+});
+export type DiscLimit = z.infer<typeof discLimitSchema>;
+
+export const rowDiagnosticSchema = z.object({
+  kind: z.enum(ROW_VALUE_KINDS),
+  rows: z.array(
+    z.object({ row: z.number().int(), mean: z.number(), robustZ: z.number(), flagged: z.boolean() }),
+  ),
+  median: z.number(),
+  mad: z.number(),
+  /** Rows whose |mean − median| / (1.4826 × MAD) exceeds this are flagged. */
+  threshold: z.number(),
+  /** Kachman & Smith (1995) indices when the kind is spacing (DOMAIN.md §7), in %. */
+  uniformity: z
+    .object({
+      xRef: z.number(),
+      multiples: z.number(),
+      misses: z.number(),
+      quality: z.number(),
+      precision: z.number(),
+    })
+    .nullable(),
+});
+export type RowDiagnostic = z.infer<typeof rowDiagnosticSchema>;
+
+export const coverageSchema = z.object({
+  cellSizeM: z.number(),
+  fieldM2: z.number(),
+  plantedM2: z.number(),
+  skippedM2: z.number(),
+  doubleM2: z.number(),
+  /** Seed (kg, m³) put down a second time in overlaps. */
+  quantityInOverlap: z.number(),
+  /** The raster for the map: south-west origin, cell size in degrees, row 0 south; counts 0 = skipped, 1 = once, 2+ = over; 255 outside. */
+  raster: z.object({
+    minLon: z.number(),
+    minLat: z.number(),
+    cellLonDeg: z.number(),
+    cellLatDeg: z.number(),
+    columns: z.number().int(),
+    rows: z.number().int(),
+    countsBase64: z.string(),
+  }),
+  /** A section layout that would have cut the overlap, when the log says which sections were on. */
+  sectionAdvice: z
+    .object({
+      rowsPerSection: z.number().int(),
+      sections: z.number().int(),
+      overlapCutM2: z.number(),
+      withinDisplayLimit: z.boolean(),
+    })
+    .nullable(),
+});
+export type Coverage = z.infer<typeof coverageSchema>;
+
+export const diagnosticsSchema = z.object({
+  /** Alarm replay at the two settings compared (default ±15 % with 2 s and with 30 s). */
+  alarms: z.array(alarmReplaySchema),
+  lag: controllerLagSchema.nullable(),
+  discLimit: discLimitSchema.nullable(),
+  rows: z.array(rowDiagnosticSchema),
+  coverage: coverageSchema.nullable(),
+});
+export type Diagnostics = z.infer<typeof diagnosticsSchema>;
+
 export const auditResultSchema = z.object({
   bandFraction: z.number(),
   /** Statistics of the rate the log records. */
@@ -242,6 +365,8 @@ export const auditResultSchema = z.object({
     z.object({ t: z.number(), wheelMps: z.number().nullable(), gnssMps: z.number().nullable() }),
   ),
   findings: z.array(findingSchema),
+  /** The deeper diagnostics; absent on audits made before they existed. */
+  diagnostics: diagnosticsSchema.optional(),
 });
 export type AuditResult = z.infer<typeof auditResultSchema>;
 
