@@ -138,6 +138,37 @@ describe('an as-applied log from upload to sign-off, in the browser', () => {
     const zones = page.getByRole('table', { name: 'Zones' });
     expect(await zones.innerText()).toMatch(/West/);
     expect(await zones.innerText()).toMatch(/East/);
+
+    // A narrower band: the log is read again (the progress shows), and the audit comes back with it.
+    expect(await page.getByText('Band ±15 %').count()).toBe(1);
+    await page.getByRole('button', { name: 'Adjust cleaning' }).click();
+    const form = page.getByRole('form', { name: 'Adjust cleaning' });
+    await form.getByLabel(/^Tolerance band/).fill('60');
+    await form.getByRole('button', { name: 'Clean and audit again' }).click();
+    expect(await form.getByText('Type a band from 1 to 50 %').isVisible()).toBe(true);
+    await form.getByLabel(/^Tolerance band/).fill('10');
+    await form.getByRole('button', { name: 'Clean and audit again' }).click();
+    await page.getByRole('region', { name: 'Reading the log' }).waitFor(WAIT);
+    await page.getByText('Band ±10 %').waitFor(WAIT);
+    expect(await page.getByRole('list', { name: 'Findings' }).innerText()).toMatch(/±10 %/);
+  });
+
+  it('the same file sent again points to the audit it already made', async () => {
+    expect(auditPath).not.toBe('');
+    const page = await pageAs('farmer');
+    await page.goto(`${world().baseUrl}/logs/new?prescriptionId=${rx.id}`);
+    await page.getByRole('heading', { level: 1, name: 'Upload a log' }).waitFor();
+    await expect
+      .poll(() => page.getByLabel('Planter', { exact: true }).inputValue(), WAIT)
+      .toBe(rx.planter!.id);
+    await page.getByLabel('Log file').setInputFiles({ name: 'again.csv', mimeType: 'text/csv', buffer: csv });
+    await page.getByRole('button', { name: 'Read the file' }).click();
+    const notice = page.getByRole('status').filter({ hasText: 'This file was uploaded already' });
+    await notice.waitFor(WAIT);
+    // No second mapping step for the same bytes.
+    expect(await page.getByRole('table', { name: 'Column mapping' }).count()).toBe(0);
+    await notice.getByRole('link', { name: 'Open its audit' }).click();
+    await page.waitForURL((u) => u.pathname === auditPath, WAIT);
   });
 
   it('the consultant comments and signs off; the audit then says who signed it and cleaning is closed', async () => {

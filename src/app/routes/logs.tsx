@@ -1,3 +1,4 @@
+import { useMemo } from 'react';
 import type { QueryClient } from '@tanstack/react-query';
 import type { LoaderFunction } from 'react-router-dom';
 import { ButtonLink } from '@/components/ui/button';
@@ -27,6 +28,10 @@ export function Component() {
   const growers = useGrowers();
   const list = useLogs({ growerId: values.growerId || undefined });
   const manyGrowers = (growers.data?.length ?? 0) > 1;
+  const growerNames = useMemo(
+    () => (manyGrowers ? new Map((growers.data ?? []).map((g) => [g.id, g.name])) : undefined),
+    [manyGrowers, growers.data],
+  );
   const upload = canUpload(me.role);
   return (
     <>
@@ -56,6 +61,7 @@ export function Component() {
         {(items) => (
           <LogTable
             items={items}
+            growerNames={growerNames}
             empty={
               values.growerId
                 ? { title: 'None match', text: 'No log of this grower yet.' }

@@ -24,6 +24,8 @@ export type AuditMapCanvasProps = {
   tileVersion: number;
   boundary: MultiPolygon;
   zones: { id: string; geometry: MultiPolygon }[];
+  /** Working width of the planter, m: each point is drawn as wide as the strip it planted. */
+  swathM: number;
   /** The tile property that colours the points, and its stops. */
   property: string;
   stops: Stop[];
@@ -47,6 +49,22 @@ function colourOf(property: string, stops: Stop[]): ExpressionSpecification {
     ['interpolate', ['linear'], ['to-number', ['get', property]], ...stops.flat()],
     NO_VALUE,
   ] as ExpressionSpecification;
+}
+
+/** Web Mercator ground size of one CSS pixel at zoom 0 on the equator, m (512-pixel tiles, as MapLibre draws). */
+const M_PER_PX_Z0 = 40_075_016.68557849 / 512;
+
+/**
+ * A circle radius that covers half the swath on the ground at every zoom (so passes read as planted strips),
+ * never under 1.2 pixels.
+ */
+function radiusBySwath(swathM: number, lat: number): ExpressionSpecification {
+  const stops: number[] = [];
+  for (let z = 8; z <= 22; z += 2) {
+    const mPerPx = (M_PER_PX_Z0 * Math.cos((lat * Math.PI) / 180)) / 2 ** z;
+    stops.push(z, Math.max(1.2, swathM / 2 / mPerPx));
+  }
+  return ['interpolate', ['exponential', 2], ['zoom'], ...stops] as ExpressionSpecification;
 }
 
 function bounds(g: MultiPolygon): LngLatBoundsLike {
@@ -97,7 +115,7 @@ export default function AuditMapCanvas(props: AuditMapCanvasProps) {
           id: 'boundary-fill',
           type: 'fill',
           source: 'boundary',
-          paint: { 'fill-color': INK.line, 'fill-opacity': 0.7 },
+          paint: { 'fill-color': INK.rule, 'fill-opacity': 0.75 },
         },
         {
           id: 'points',
@@ -106,10 +124,7 @@ export default function AuditMapCanvas(props: AuditMapCanvasProps) {
           'source-layer': 'points',
           paint: {
             'circle-color': colourOf(p.property, p.stops),
-            'circle-radius': ['interpolate', ['exponential', 2], ['zoom'], 13, 1, 16, 2.5, 19, 8, 21, 20],
-            'circle-stroke-color': INK.ink,
-            'circle-stroke-opacity': 0.25,
-            'circle-stroke-width': ['interpolate', ['linear'], ['zoom'], 15, 0, 17, 0.4],
+            'circle-radius': radiusBySwath(p.swathM, (bounds(p.boundary) as [number, number][])[0][1]),
           },
         },
         {
@@ -187,9 +202,9 @@ export default function AuditMapCanvas(props: AuditMapCanvasProps) {
   const hoverText = hover ? props.describePoint(hover.values) : null;
 
   return (
-    <div className={`relative print:h-auto ${props.className ?? 'h-[440px]'}`}>
+    <div>
       <div
-        className="sowright-map relative h-full overflow-hidden rounded-card border border-ink-line print:hidden"
+        className={`sowright-map relative overflow-hidden rounded-card border border-ink-line print:hidden ${props.className ?? 'h-[440px]'}`}
         role="region"
         aria-label={label}
       >
@@ -212,12 +227,11 @@ export default function AuditMapCanvas(props: AuditMapCanvasProps) {
             {hoverText}
           </div>
         ) : null}
-        <div className="absolute right-2.5 bottom-2.5 z-10">{legend}</div>
       </div>
-      <figure className="audit-map-print hidden print:block">
+      <figure className="hidden print:block">
         <img ref={snapshot} alt={label} className="w-full rounded-card border border-ink-line" />
-        <figcaption className="mt-1">{legend}</figcaption>
       </figure>
+      <div className="mt-2">{legend}</div>
     </div>
   );
 }

@@ -4,11 +4,11 @@ import type { Prescription } from '@shared/schemas/prescription.schema';
 import { RATE_UNIT_DEFS, rateFromSi } from '@shared/rates/rate-units';
 import { speedToDisplay, speedUnitLabel, type UnitSystem } from '@shared/units';
 import { Checkbox } from '@/components/ui/input';
-import { MapLegend } from '@/components/map/legend';
 import { Segmented } from '@/components/ui/segmented';
 import { formatNumber } from '@/lib/format';
-import type { PointValues } from './audit-map-canvas';
-import { errorStops, legendStops, NO_VALUE, sequentialStops } from './map-colours';
+import type { AuditMapCanvasProps, PointValues } from './audit-map-canvas';
+import { errorStops, NO_VALUE, sequentialStops } from './map-colours';
+import { DotSwatch, RampKey, ZoneSwatch } from './ramp-key';
 
 const AuditMapCanvas = lazy(() => import('./audit-map-canvas'));
 
@@ -102,106 +102,105 @@ export function AuditMaps({
     </>
   );
 
-  const base = { unitSystem: system, logId: log.id, tileVersion: log.version, boundary: rx.boundary, zones };
-  const zoneEntry = {
-    key: 'zones',
-    colour: '#1f2630',
-    outline: 'dashed' as const,
-    label: 'Prescription zones',
+  const swathM = rx.planter ? rx.planter.rowCount * rx.planter.rowSpacingM : 9;
+  const base = {
+    unitSystem: system,
+    logId: log.id,
+    tileVersion: log.version,
+    boundary: rx.boundary,
+    zones,
+    swathM,
   };
+  const zoneMark = { key: 'zones', swatch: <ZoneSwatch />, label: 'Prescription zones' };
 
   const errLegend = (
-    <MapLegend
-      title={corrected && hasTrue ? 'Corrected − target (%)' : 'Applied − target (%)'}
-      entries={[
-        ...legendStops(errStops).map(([v, c], i) => ({
-          key: `e${i}`,
-          colour: c,
-          label:
-            i === 0
-              ? `${signed(v)} % or more (over)`
-              : i === 4
-                ? `${signed(v)} % or less (under)`
-                : v === 0
-                  ? 'On target'
-                  : `${signed(v)} %`,
-        })),
-        zoneEntry,
-      ]}
-      note={`Band ±${formatNumber(bandPct)} %; colours stop at twice the band.`}
+    <RampKey
+      title={corrected && hasTrue ? 'Corrected applied against target' : 'Applied against target'}
+      stops={errStops}
+      ticks={[-limit, -bandPct, 0, bandPct, limit].map((v) => ({
+        value: v,
+        label: v === 0 ? 'on target' : `${signed(v)} %`,
+      }))}
+      marks={[zoneMark]}
+      note={`Blue: less than the target; red: more. Band ±${formatNumber(bandPct)} %; colours stop at twice the band.`}
     />
   );
   const secondStops = second === 'applied' ? rateStops : speedStops;
+  const lo = secondStops[0][0];
+  const hi = secondStops[secondStops.length - 1][0];
   const secondLegend = (
-    <MapLegend
+    <RampKey
       title={second === 'applied' ? `Applied (${unitLabel})` : `Speed (${speedLabel})`}
-      entries={[
-        ...legendStops(secondStops).map(([v, c], i) => ({
-          key: `s${i}`,
-          colour: c,
-          label: second === 'applied' ? rate(v) : formatNumber(speedToDisplay(v, system), 1),
-        })),
-        { key: 'none', colour: NO_VALUE, label: 'No value' },
-        zoneEntry,
-      ]}
+      stops={secondStops}
+      ticks={[lo, (lo + hi) / 2, hi].map((v) => ({
+        value: v,
+        label: second === 'applied' ? rate(v) : formatNumber(speedToDisplay(v, system), 1),
+      }))}
+      marks={[{ key: 'none', swatch: <DotSwatch colour={NO_VALUE} />, label: 'No value' }, zoneMark]}
     />
   );
 
   return (
     <div className="grid gap-4 xl:grid-cols-2">
-      <div className="min-w-0 space-y-2">
-        <div className="flex min-h-9 flex-wrap items-center justify-between gap-2">
-          <h3 className="font-medium text-ink">Where it was off</h3>
-          {hasTrue ? (
+      <MapPanel
+        title="Where it was off"
+        control={
+          hasTrue ? (
             <Checkbox
-              className="print:hidden"
               label="Corrected for the speed error"
               checked={corrected}
               onChange={(e) => setCorrected(e.target.checked)}
             />
-          ) : null}
-        </div>
-        <MapBoundary>
-          <Suspense fallback={<MapLoading />}>
-            <AuditMapCanvas
-              {...base}
-              label={`Error map of ${log.fieldName}`}
-              property={errorProperty}
-              stops={errStops}
-              describePoint={describe}
-              legend={errLegend}
-            />
-          </Suspense>
-        </MapBoundary>
+          ) : null
+        }
+        map={{
+          ...base,
+          label: `Error map of ${log.fieldName}`,
+          property: errorProperty,
+          stops: errStops,
+          describePoint: describe,
+          legend: errLegend,
+        }}
+      />
+      <MapPanel
+        title={second === 'applied' ? 'Applied rate' : 'Ground speed'}
+        control={
+          <Segmented<Second>
+            label="Second map"
+            value={second}
+            options={[
+              { value: 'applied', label: 'Applied rate' },
+              { value: 'speed', label: 'Speed' },
+            ]}
+            onChange={setSecond}
+          />
+        }
+        map={{
+          ...base,
+          label: `${second === 'applied' ? 'Applied rate' : 'Speed'} map of ${log.fieldName}`,
+          property: second,
+          stops: secondStops,
+          describePoint: describe,
+          legend: secondLegend,
+        }}
+      />
+    </div>
+  );
+}
+
+/** One map with its title and its control (not printed) above it. */
+function MapPanel({ title, control, map }: { title: string; control: ReactNode; map: AuditMapCanvasProps }) {
+  return (
+    <div className="min-w-0 space-y-2">
+      <div className="flex min-h-9 flex-wrap items-center justify-between gap-2">
+        <h3 className="font-medium text-ink">{title}</h3>
+        <span className="print:hidden">{control}</span>
       </div>
-      <div className="min-w-0 space-y-2">
-        <div className="flex min-h-9 flex-wrap items-center justify-between gap-2">
-          <h3 className="font-medium text-ink">{second === 'applied' ? 'Applied rate' : 'Ground speed'}</h3>
-          <span className="print:hidden">
-            <Segmented<Second>
-              label="Second map"
-              value={second}
-              options={[
-                { value: 'applied', label: 'Applied rate' },
-                { value: 'speed', label: 'Speed' },
-              ]}
-              onChange={setSecond}
-            />
-          </span>
-        </div>
-        <MapBoundary>
-          <Suspense fallback={<MapLoading />}>
-            <AuditMapCanvas
-              {...base}
-              label={`${second === 'applied' ? 'Applied rate' : 'Speed'} map of ${log.fieldName}`}
-              property={second}
-              stops={secondStops}
-              describePoint={describe}
-              legend={secondLegend}
-            />
-          </Suspense>
-        </MapBoundary>
-      </div>
+      <MapBoundary>
+        <Suspense fallback={<MapLoading />}>
+          <AuditMapCanvas {...map} />
+        </Suspense>
+      </MapBoundary>
     </div>
   );
 }

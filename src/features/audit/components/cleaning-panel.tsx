@@ -93,16 +93,16 @@ export function CleaningPanel({
       <div className="overflow-x-auto rounded-card border border-ink-line bg-paper-raised">
         <table className="w-full border-collapse text-sm" aria-label="Cleaning">
           <thead>
-            <tr className="border-b border-ink-line bg-paper-sunk/60 text-left text-xs text-ink-soft">
-              <th scope="col" className="px-3 py-1.5 font-medium">
-                Step
-              </th>
-              <th scope="col" className="px-3 py-1.5 font-medium">
-                Setting
-              </th>
-              <th scope="col" className="px-3 py-1.5 text-right font-medium">
-                Points removed
-              </th>
+            <tr className="border-b border-ink-line bg-paper-sunk/60 text-xs text-ink-soft">
+              {['Step', 'Setting', 'Points removed'].map((h) => (
+                <th
+                  key={h}
+                  scope="col"
+                  className={`px-3 py-1.5 font-medium ${h === 'Points removed' ? 'text-right' : 'text-left'}`}
+                >
+                  {h}
+                </th>
+              ))}
             </tr>
           </thead>
           <tbody>

@@ -33,8 +33,5 @@ export function colourAt(stops: Stop[], v: number): string {
   return stops[stops.length - 1][1];
 }
 
-/** Five stops of the nine for a legend: ends, quarters and the middle. */
-export const legendStops = (stops: Stop[]) => [0, 2, 4, 6, 8].map((i) => stops[i]).reverse();
-
 /** Points with no value for the layer shown (no corrected rate without both speeds). */
 export const NO_VALUE = '#b9b2a3';

@@ -20,13 +20,31 @@ export function RatioHistogram({
   const total = bins.reduce((s, b) => s + b.areaM2, 0);
   if (bins.length === 0 || total <= 0)
     return <p className="text-sm text-ink-soft">No planted area to show.</p>;
-  const lo = Math.min(...bins.map((b) => b.from));
-  const hi = Math.max(...bins.map((b) => b.to));
+  // The open-ended bins at either end (everything under, everything over) are drawn two bins wide.
+  const widths = bins.map((b) => b.to - b.from).sort((a, b) => a - b);
+  const step = widths[Math.floor(widths.length / 2)];
+  const shown = bins.map((b, i) => {
+    const open = b.to - b.from > 3 * step;
+    if (open && i === 0)
+      return { ...b, x0: b.to - 2 * step, x1: b.to, open: `< ${formatNumber(b.to * 100)} %` };
+    if (open && i === bins.length - 1)
+      return { ...b, x0: b.from, x1: b.from + 2 * step, open: `> ${formatNumber(b.from * 100)} %` };
+    return { ...b, x0: b.from, x1: b.to, open: null };
+  });
+  const lo = Math.min(...shown.map((b) => b.x0));
+  const hi = Math.max(...shown.map((b) => b.x1));
   const top = Math.max(...bins.map((b) => b.areaM2 / total));
   const x = (r: number) => PAD.left + ((r - lo) / (hi - lo || 1)) * (W - PAD.left - PAD.right);
   const y = (share: number) => H - PAD.bottom - (share / (top || 1)) * (H - PAD.top - PAD.bottom);
   const stops = errorStops(200 * bandFraction);
-  const ticks = Array.from({ length: 11 }, (_, i) => lo + ((hi - lo) * i) / 10).filter((_, i) => i % 2 === 0);
+  const inner = shown.filter((b) => !b.open);
+  const innerLo = Math.min(...inner.map((b) => b.x0));
+  const innerHi = Math.max(...inner.map((b) => b.x1));
+  const tickStep = innerHi - innerLo > 0.6 ? 0.25 : 0.1;
+  const ticks: number[] = [];
+  for (let t = Math.ceil(innerLo / tickStep - 1e-9) * tickStep; t <= innerHi + 1e-9; t += tickStep)
+    // The ends of the inner range are named by the open bins beside them.
+    if (!shown.some((b) => b.open && Math.abs((b.x0 + b.x1) / 2 - t) < 2.5 * step)) ticks.push(t);
   const yTicks = [0, top / 2, top];
   const inBand = bins
     .filter((b) => b.from >= 1 - bandFraction - 1e-9 && b.to <= 1 + bandFraction + 1e-9)
@@ -46,22 +64,22 @@ export function RatioHistogram({
           height={H - PAD.top - PAD.bottom}
           fill="#e9e4d8"
         />
-        {bins.map((b, i) => {
+        {shown.map((b, i) => {
           const share = b.areaM2 / total;
-          const mid = (b.from + b.to) / 2;
+          const mid = b.open ? (i === 0 ? 0 : 10) : (b.from + b.to) / 2;
           return (
             <rect
               key={i}
-              x={x(b.from) + 0.5}
+              x={x(b.x0) + 0.5}
               y={y(share)}
-              width={Math.max(0, x(b.to) - x(b.from) - 1)}
+              width={Math.max(0, x(b.x1) - x(b.x0) - 1)}
               height={H - PAD.bottom - y(share)}
               fill={colourAt(stops, (mid - 1) * 100)}
               stroke="#1f2630"
               strokeOpacity={0.35}
               strokeWidth={0.5}
             >
-              <title>{`${formatNumber(b.from * 100)}–${formatNumber(b.to * 100)} % of target: ${formatNumber(share * 100, 1)} % of the area`}</title>
+              <title>{`${b.open ?? `${formatNumber(b.from * 100, 1)}–${formatNumber(b.to * 100, 1)} %`} of target: ${formatNumber(share * 100, 1)} % of the area`}</title>
             </rect>
           );
         })}
@@ -74,6 +92,19 @@ export function RatioHistogram({
           stroke="#4a5462"
           strokeWidth={1}
         />
+        {shown.map((b, i) =>
+          b.open ? (
+            <text
+              key={`open-${i}`}
+              x={(x(b.x0) + x(b.x1)) / 2}
+              y={H - PAD.bottom + 14}
+              textAnchor="middle"
+              className="fill-ink-soft text-[10px]"
+            >
+              {b.open}
+            </text>
+          ) : null,
+        )}
         {ticks.map((t) => (
           <text
             key={t}

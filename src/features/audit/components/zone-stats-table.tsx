@@ -34,6 +34,9 @@ function figures(unit: RateUnit, system: UnitSystem, money: Money) {
   };
 }
 
+/** How the figures are shown: the rate unit, the unit system, the product's purchase unit and money. */
+type Shown = { unit: RateUnit; system: UnitSystem; unitName: string; money: Money };
+
 /** The whole field in a few figures: area, mean target and applied, bias, share in band, seed and money. */
 export function FieldFacts({
   stats,
@@ -42,14 +45,7 @@ export function FieldFacts({
   system,
   unitName,
   money,
-}: {
-  stats: AuditStats;
-  statsTrue: AuditStats | null;
-  unit: RateUnit;
-  system: UnitSystem;
-  unitName: string;
-  money: Money;
-}) {
+}: Shown & { stats: AuditStats; statsTrue: AuditStats | null }) {
   const f = figures(unit, system, money);
   const label = RATE_UNIT_DEFS[unit].label;
   return (
@@ -85,120 +81,56 @@ export function FieldFacts({
  * Per zone: area, mean target and applied, bias, RMSE, CV, share in band, area over and under, seed and
  * money more or less than prescribed, and the corrected figures when the log had both speeds. Sortable.
  */
-export function ZoneStatsTable({
-  zones,
-  unit,
-  system,
-  unitName,
-  money,
-}: {
-  zones: Row[];
-  unit: RateUnit;
-  system: UnitSystem;
-  unitName: string;
-  money: Money;
-}) {
+export function ZoneStatsTable({ zones, unit, system, unitName, money }: Shown & { zones: Row[] }) {
   const f = figures(unit, system, money);
   const label = RATE_UNIT_DEFS[unit].label;
   const corrected = zones.some((z) => z.statsTrue);
-  /** A right-aligned, sortable column of figures. */
-  const num = (id: string, header: string, sortBy: (z: Row) => number, show: (z: Row) => string) =>
+  const units = `${unitName.charAt(0).toUpperCase()}${unitName.slice(1)}s`;
+  type Key = Exclude<keyof AuditStats, 'costDelta'>;
+  /** A right-aligned, sortable column of one statistic, as logged or (`true`) corrected for the speed error. */
+  const stat = (key: Key | 'costDelta', header: string, show: (v: number) => string, corrected = false) =>
     ({
-      id,
+      id: corrected ? `true-${key}` : key,
       header,
-      accessorFn: sortBy,
+      accessorFn: (z) => (corrected ? z.statsTrue : z.stats)?.[key] ?? 0,
       meta: { numeric: true },
-      cell: ({ row }) => show(row.original),
+      cell: ({ row }) => {
+        const s = corrected ? row.original.statsTrue : row.original.stats;
+        const v = s?.[key];
+        return <span className="whitespace-nowrap">{v == null ? '—' : show(v)}</span>;
+      },
     }) satisfies ColumnDef<Row, unknown>;
-  const withTrue = (show: (t: AuditStats) => string) => (z: Row) => (z.statsTrue ? show(z.statsTrue) : '—');
+  const signed1 = (v: number) => signedNumber(v, 1);
   const columns: ColumnDef<Row, unknown>[] = [
-    { id: 'zone', header: 'Zone', accessorFn: (z) => z.name, sortingFn: 'alphanumeric' },
-    num(
-      'area',
-      'Area',
-      (z) => z.stats.areaM2,
-      (z) => f.area(z.stats.areaM2),
-    ),
-    num(
-      'target',
-      `Target (${label})`,
-      (z) => z.targetSi,
-      (z) => f.rate(z.targetSi),
-    ),
-    num(
-      'applied',
-      `Applied (${label})`,
-      (z) => z.stats.meanAppliedSi,
-      (z) => f.rate(z.stats.meanAppliedSi),
-    ),
-    num(
-      'bias',
-      'Bias',
-      (z) => z.stats.biasPct,
-      (z) => f.pct(z.stats.biasPct),
-    ),
-    num(
-      'rmse',
-      `RMSE (${label})`,
-      (z) => z.stats.rmseSi,
-      (z) => f.rate(z.stats.rmseSi),
-    ),
-    num(
-      'cv',
-      'CV',
-      (z) => z.stats.cvPct,
-      (z) => `${formatNumber(z.stats.cvPct, 1)} %`,
-    ),
-    num(
-      'inBand',
-      'In band',
-      (z) => z.stats.inBandShare,
-      (z) => f.share(z.stats.inBandShare),
-    ),
-    num(
-      'over',
-      'Area over',
-      (z) => z.stats.areaOverM2,
-      (z) => f.area(z.stats.areaOverM2),
-    ),
-    num(
-      'under',
-      'Area under',
-      (z) => z.stats.areaUnderM2,
-      (z) => f.area(z.stats.areaUnderM2),
-    ),
-    num(
-      'units',
-      `${unitName}s ±`,
-      (z) => z.stats.unitsDelta,
-      (z) => signedNumber(z.stats.unitsDelta, 1),
-    ),
-    num(
-      'money',
-      'Money ±',
-      (z) => z.stats.costDelta ?? 0,
-      (z) => f.money(z.stats.costDelta),
-    ),
+    {
+      id: 'zone',
+      header: 'Zone',
+      accessorFn: (z) => z.name,
+      sortingFn: 'alphanumeric',
+      cell: ({ row }) => <span className="font-medium whitespace-nowrap">{row.original.name}</span>,
+    },
+    stat('areaM2', 'Area', f.area),
+    {
+      id: 'target',
+      header: `Target (${label})`,
+      accessorFn: (z) => z.targetSi,
+      meta: { numeric: true },
+      cell: ({ row }) => f.rate(row.original.targetSi),
+    },
+    stat('meanAppliedSi', `Applied (${label})`, f.rate),
+    stat('biasPct', 'Bias', (v) => f.pct(v)),
+    stat('rmseSi', `RMSE (${label})`, f.rate),
+    stat('cvPct', 'CV', (v) => `${formatNumber(v, 1)} %`),
+    stat('inBandShare', 'In band', f.share),
+    stat('areaOverM2', 'Area over', f.area),
+    stat('areaUnderM2', 'Area under', f.area),
+    stat('unitsDelta', `${units} ±`, signed1),
+    stat('costDelta', 'Money ±', f.money),
     ...(corrected
       ? [
-          num(
-            'trueApplied',
-            `Corrected applied (${label})`,
-            (z) => z.statsTrue?.meanAppliedSi ?? 0,
-            withTrue((t) => f.rate(t.meanAppliedSi)),
-          ),
-          num(
-            'trueBias',
-            'Corrected bias',
-            (z) => z.statsTrue?.biasPct ?? 0,
-            withTrue((t) => f.pct(t.biasPct)),
-          ),
-          num(
-            'trueUnits',
-            `Corrected ${unitName}s ±`,
-            (z) => z.statsTrue?.unitsDelta ?? 0,
-            withTrue((t) => signedNumber(t.unitsDelta, 1)),
-          ),
+          stat('meanAppliedSi', `Corrected applied (${label})`, f.rate, true),
+          stat('biasPct', 'Corrected bias', (v) => f.pct(v), true),
+          stat('unitsDelta', `Corrected, ${unitName}s ±`, signed1, true),
         ]
       : []),
   ];

@@ -74,7 +74,7 @@ export function ProgressBar({ value, label, large }: { value: number; label: str
 export function LogStatusCell({ log }: { log: Log }) {
   const running = log.status !== 'ready' && log.status !== 'failed';
   return (
-    <span className="flex min-w-40 flex-col gap-1">
+    <span className={`flex flex-col gap-1 ${running ? 'min-w-40' : ''}`}>
       <span>
         <LogStatusBadge status={log.status} />
       </span>

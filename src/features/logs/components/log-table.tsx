@@ -19,7 +19,16 @@ export function formatBytes(n: number) {
 const count = (n: number | null) => (n == null ? '—' : formatNumber(n));
 
 /** As-applied logs with their field, season, planter, prescription, file, state and points; rows open the audit. */
-export function LogTable({ items, empty }: { items: Log[]; empty: { title: string; text: string } }) {
+export function LogTable({
+  items,
+  empty,
+  growerNames,
+}: {
+  items: Log[];
+  empty: { title: string; text: string };
+  /** Names of the growers by id, when the reader sees more than one (a column of its own). */
+  growerNames?: Map<string, string>;
+}) {
   const columns: ColumnDef<Log, unknown>[] = [
     {
       id: 'field',
@@ -32,6 +41,16 @@ export function LogTable({ items, empty }: { items: Log[]; empty: { title: strin
         </Link>
       ),
     },
+    ...(growerNames
+      ? [
+          {
+            id: 'grower',
+            header: 'Grower',
+            accessorFn: (l: Log) => growerNames.get(l.growerId) ?? '',
+            sortingFn: 'text' as const,
+          },
+        ]
+      : []),
     { id: 'season', header: 'Crop season', accessorFn: (l) => l.seasonLabel, sortingFn: 'text' },
     { id: 'planter', header: 'Planter', accessorFn: (l) => l.planterName, sortingFn: 'text' },
     {
@@ -50,7 +69,11 @@ export function LogTable({ items, empty }: { items: Log[]; empty: { title: strin
       header: 'File',
       accessorFn: (l) => l.fileName,
       sortingFn: 'text',
-      cell: ({ row }) => <span className="break-all">{row.original.fileName}</span>,
+      cell: ({ row }) => (
+        <span className="block max-w-52 truncate" title={row.original.fileName}>
+          {row.original.fileName}
+        </span>
+      ),
     },
     {
       id: 'size',

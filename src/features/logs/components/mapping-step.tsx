@@ -9,7 +9,7 @@ import {
   type LogField,
 } from '@shared/schemas/as-applied.schema';
 import { GROUND_SPEED_SOURCE_LABELS, type GROUND_SPEED_SOURCES } from '@shared/schemas/planter.schema';
-import { Select } from '@/components/ui/input';
+import { Select, type SelectOption } from '@/components/ui/input';
 import { unitWords, type MappingDraft } from './mapping-values';
 
 export type MeteredOn = (typeof GROUND_SPEED_SOURCES)[number];
@@ -78,19 +78,12 @@ export function MappingStep({
       <div className="overflow-x-auto rounded-card border border-ink-line bg-paper-raised">
         <table className="w-full border-collapse text-sm" aria-label="Column mapping">
           <thead>
-            <tr className="border-b border-ink-line bg-paper-sunk/60 text-left text-xs text-ink-soft">
-              <th scope="col" className="px-3 py-1.5 font-medium">
-                What
-              </th>
-              <th scope="col" className="px-3 py-1.5 font-medium">
-                Column in the file
-              </th>
-              <th scope="col" className="px-3 py-1.5 font-medium">
-                Unit
-              </th>
-              <th scope="col" className="px-3 py-1.5 font-medium">
-                First values
-              </th>
+            <tr className="border-b border-ink-line bg-paper-sunk/60 text-xs text-ink-soft">
+              {['What', 'Column in the file', 'Unit', 'First values'].map((h) => (
+                <th key={h} scope="col" className="px-3 py-1.5 text-left font-medium">
+                  {h}
+                </th>
+              ))}
             </tr>
           </thead>
           <tbody>
@@ -98,10 +91,6 @@ export function MappingStep({
               const required = REQUIRED_LOG_FIELDS.includes(f);
               const units = LOG_FIELD_UNITS[f];
               const choice = draft[f];
-              const colError = problems[f];
-              const unitError = problems[`${f}.unit`];
-              const colErrId = `${id}-${f}-col-error`;
-              const unitErrId = `${id}-${f}-unit-error`;
               return (
                 <tr key={f} data-field={f} className="border-b border-ink-line/70 align-top last:border-b-0">
                   <th scope="row" className="px-3 py-2 text-left font-normal">
@@ -114,41 +103,27 @@ export function MappingStep({
                     ) : null}
                   </th>
                   <td className="px-3 py-2">
-                    <Select
-                      aria-label={`Column for ${LOG_FIELD_LABELS[f].toLowerCase()}`}
-                      aria-required={required || undefined}
-                      aria-invalid={colError ? true : undefined}
-                      aria-describedby={colError ? colErrId : undefined}
+                    <CellSelect
+                      label={`Column for ${LOG_FIELD_LABELS[f].toLowerCase()}`}
+                      required={required}
+                      error={problems[f]}
                       value={choice.column}
                       placeholder={required ? 'Choose the column' : 'Not in this file'}
                       options={columnOptions}
-                      onChange={(e) => onChange(f, { column: e.target.value })}
+                      onChange={(v) => onChange(f, { column: v })}
                     />
-                    {colError ? (
-                      <p id={colErrId} className="mt-1 text-xs font-medium text-danger">
-                        {colError}
-                      </p>
-                    ) : null}
                   </td>
                   <td className="px-3 py-2">
                     {units ? (
-                      <>
-                        <Select
-                          aria-label={`Unit of ${LOG_FIELD_LABELS[f].toLowerCase()}`}
-                          aria-invalid={unitError ? true : undefined}
-                          aria-describedby={unitError ? unitErrId : undefined}
-                          value={choice.unit}
-                          disabled={!choice.column}
-                          placeholder="Choose the unit"
-                          options={units.map((u) => ({ value: u, label: unitWords(u) }))}
-                          onChange={(e) => onChange(f, { unit: e.target.value })}
-                        />
-                        {unitError ? (
-                          <p id={unitErrId} className="mt-1 text-xs font-medium text-danger">
-                            {unitError}
-                          </p>
-                        ) : null}
-                      </>
+                      <CellSelect
+                        label={`Unit of ${LOG_FIELD_LABELS[f].toLowerCase()}`}
+                        error={problems[`${f}.unit`]}
+                        value={choice.unit}
+                        disabled={!choice.column}
+                        placeholder="Choose the unit"
+                        options={units.map((u) => ({ value: u, label: unitWords(u) }))}
+                        onChange={(v) => onChange(f, { unit: v })}
+                      />
                     ) : (
                       <span className="block pt-2 text-xs text-ink-faint">no unit</span>
                     )}
@@ -206,6 +181,43 @@ export function MappingStep({
         ) : null}
       </fieldset>
     </div>
+  );
+}
+
+/** A select in a table cell, named for assistive technology, with its error under it. */
+function CellSelect({
+  label,
+  error,
+  required,
+  onChange,
+  ...rest
+}: {
+  label: string;
+  error?: string;
+  required?: boolean;
+  value: string;
+  disabled?: boolean;
+  placeholder: string;
+  options: SelectOption[];
+  onChange: (value: string) => void;
+}) {
+  const errorId = useId();
+  return (
+    <>
+      <Select
+        aria-label={label}
+        aria-required={required || undefined}
+        aria-invalid={error ? true : undefined}
+        aria-describedby={error ? errorId : undefined}
+        onChange={(e) => onChange(e.target.value)}
+        {...rest}
+      />
+      {error ? (
+        <p id={errorId} className="mt-1 text-xs font-medium text-danger">
+          {error}
+        </p>
+      ) : null}
+    </>
   );
 }
 
