@@ -21,6 +21,7 @@ import { seasonRouter } from './routes/seasons/season.router';
 import { planterRouter } from './routes/planters/planter.router';
 import { zoneMapRouter } from './routes/zone-maps/zone-map.router';
 import { productRouter } from './routes/products/product.router';
+import { planterLogbookRouter } from './routes/planters/logbook';
 import { logRouter } from './routes/logs/log.router';
 import type { FileStore } from './logs/file-store';
 import { prescriptionRouter, seedOrderRouter } from './routes/prescriptions/prescription.router';
@@ -81,6 +82,7 @@ export function createApp(deps: AppDeps): Express {
   app.use('/api/farms', farmRouter());
   app.use('/api/fields', fieldRouter());
   app.use('/api/seasons', seasonRouter());
+  app.use('/api/planters', planterLogbookRouter());
   app.use('/api/planters', planterRouter());
   app.use('/api/zone-maps', zoneMapRouter());
   app.use('/api/imports', importRouter());

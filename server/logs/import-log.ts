@@ -37,6 +37,8 @@ type LogContext = {
   band: number | null;
   unitSystem: UnitSystem | null;
   createdBy: string | null;
+  planterId: string;
+  seasonId: string;
 };
 
 export type ImportDeps = {
@@ -70,7 +72,8 @@ async function contextOf(sequelize: Sequelize, logId: string): Promise<LogContex
             l.metered_on AS "meteredOn", lf.sha256, lf.original_name AS "fileName", lf.format,
             r.id AS "prescriptionId", r.default_rate_si AS "defaultRateSi", r.rate_unit AS "rateUnit",
             pl.row_count AS "rowCount", pl.row_spacing_m AS "rowSpacingM", r.product_snapshot AS "productSnapshot",
-            a.band_fraction AS band, u.unit_system AS "unitSystem", l.created_by AS "createdBy"
+            a.band_fraction AS band, u.unit_system AS "unitSystem", l.created_by AS "createdBy",
+            l.planter_id AS "planterId", l.crop_season_id AS "seasonId"
        FROM as_applied_logs l
        JOIN log_files lf ON lf.id = l.file_id
        JOIN prescriptions r ON r.id = l.prescription_id
@@ -204,6 +207,7 @@ async function storeResults(deps: ImportDeps, ctx: LogContext, out: PipelineOutp
        WHERE audits.status = 'open'`,
       [ctx.workspaceId, ctx.growerId, ctx.id, out.result.bandFraction, JSON.stringify(out.result)],
     );
+    await addToLogbook(client, ctx, out);
     await client.query(
       `UPDATE as_applied_logs SET status = 'ready', progress = 1, points_read = $2, points_kept = $3,
               cleaning_report = $4, metered_on = $5, finished_at = now(), version = version + 1, updated_at = now()
@@ -217,4 +221,50 @@ async function storeResults(deps: ImportDeps, ctx: LogContext, out: PipelineOutp
   } finally {
     await client.end().catch(() => {});
   }
+}
+
+/**
+ * The planter logbook is a ledger: the first import adds what the log planted, a re-run adds the difference
+ * (so the sums stay right), inside the same transaction as the points.
+ */
+async function addToLogbook(client: pg.Client, ctx: LogContext, out: PipelineOutput) {
+  const { rows } = await client.query<{
+    n: string;
+    area: number;
+    quantity: number;
+    distance: number;
+    hours: number;
+  }>(
+    `SELECT count(*) AS n, COALESCE(sum(area_m2), 0) AS area, COALESCE(sum(quantity), 0) AS quantity,
+            COALESCE(sum(distance_m), 0) AS distance, COALESCE(sum(hours), 0) AS hours
+       FROM planter_logbook WHERE log_id = $1`,
+    [ctx.id],
+  );
+  const had = rows[0];
+  const first = Number(had.n) === 0;
+  const d = {
+    area: out.logbook.areaM2 - had.area,
+    quantity: out.logbook.quantity - had.quantity,
+    distance: out.logbook.distanceM - had.distance,
+    hours: out.logbook.hours - had.hours,
+  };
+  if (!first && Math.abs(d.area) < 1e-6 && Math.abs(d.quantity) < 1e-6 && Math.abs(d.hours) < 1e-9) return;
+  await client.query(
+    `INSERT INTO planter_logbook (workspace_id, planter_id, crop_season_id, log_id, kind, area_m2, quantity,
+                                  distance_m, hours, note, created_by)
+     VALUES ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11)`,
+    [
+      ctx.workspaceId,
+      ctx.planterId,
+      ctx.seasonId,
+      ctx.id,
+      first ? 'log' : 'rerun',
+      d.area,
+      d.quantity,
+      d.distance,
+      d.hours,
+      first ? `Log ${ctx.fileName}` : `Log ${ctx.fileName} read again (the difference)`,
+      ctx.createdBy,
+    ],
+  );
 }

@@ -14,6 +14,7 @@ import { auditLog } from '../../shared/audit/audit-log';
 import { findingsOf } from '../../shared/audit/findings';
 import { SPEED_SOURCE_CODE, type LogColumns } from '../../shared/audit/log-columns';
 import { pointsFileToCsv } from './points-to-csv';
+import { logbookTotals, type LogbookTotals } from '../../shared/audit/logbook';
 
 export type PipelineStage = 'reading' | 'cleaning' | 'auditing';
 
@@ -50,6 +51,8 @@ export type PipelineOutput = {
   report: CleaningReport;
   result: AuditResult;
   meteredOn: 'wheel' | 'radar' | 'gnss';
+  /** What the log adds to the planter's lifetime counters. */
+  logbook: LogbookTotals;
 };
 
 /** The speed the controller metered on: the log's own speed-source column when it has one, else the setting. */
@@ -108,5 +111,6 @@ export async function runPipeline(
     report: cleaned.report,
     result: { ...result, findings },
     meteredOn,
+    logbook: logbookTotals(cleaned.columns, cleaned.removedBy, area, trueApplied, input.fallbackWidthM),
   };
 }

@@ -343,7 +343,31 @@ export async function recleanLog(
   return getLog(actor, id);
 }
 
+/** Deletes a log; its planter's logbook keeps the history: what the log added is subtracted, with a note. */
 export async function deleteLog(actor: Actor, id: string) {
-  await getLog(actor, id);
-  await db().query('DELETE FROM as_applied_logs WHERE id = :id', { replacements: { id } });
+  const log = await getLog(actor, id);
+  const [me] = await db().query<{ name: string }>('SELECT name FROM users WHERE id = :id', {
+    replacements: { id: actor.userId },
+    type: QueryTypes.SELECT,
+  });
+  await db().transaction(async (t) => {
+    await db().query(
+      `INSERT INTO planter_logbook (workspace_id, planter_id, crop_season_id, log_id, kind, area_m2, quantity,
+                                    distance_m, hours, note, created_by)
+       SELECT workspace_id, planter_id, crop_season_id, log_id, 'deleted', -sum(area_m2), -sum(quantity),
+              -sum(distance_m), -sum(hours), :note, :userId
+         FROM planter_logbook WHERE log_id = :id
+        GROUP BY workspace_id, planter_id, crop_season_id, log_id
+       HAVING count(*) > 0`,
+      {
+        replacements: {
+          id,
+          userId: actor.userId,
+          note: `Log ${log.fileName} deleted by ${me?.name ?? 'someone'} on ${new Date().toISOString().slice(0, 10)}: its counts are taken off`,
+        },
+        transaction: t,
+      },
+    );
+    await db().query('DELETE FROM as_applied_logs WHERE id = :id', { replacements: { id }, transaction: t });
+  });
 }
