@@ -134,6 +134,13 @@ describe('an as-applied log from upload to sign-off, in the browser', () => {
     // The points came as vector tiles from our own server, and some tile held points.
     await expect.poll(() => tiles.some((t) => t.status === 200 && t.bytes > 0), WAIT).toBe(true);
 
+    // The second map shows the speed instead of the applied rate; the error map the corrected error.
+    await page.getByRole('radio', { name: 'Speed' }).click();
+    await page.getByRole('region', { name: `Speed map of ${rx.fieldName}` }).waitFor(WAIT);
+    expect(await page.getByRole('group', { name: /^Key: Speed \((mph|km\/h)\)$/ }).count()).toBe(1);
+    await page.getByLabel('Corrected for the speed error').check();
+    expect(await page.getByRole('group', { name: 'Key: Corrected applied against target' }).count()).toBe(1);
+
     // The zone table names both halves.
     const zones = page.getByRole('table', { name: 'Zones' });
     expect(await zones.innerText()).toMatch(/West/);
@@ -169,6 +176,44 @@ describe('an as-applied log from upload to sign-off, in the browser', () => {
     expect(await page.getByRole('table', { name: 'Column mapping' }).count()).toBe(0);
     await notice.getByRole('link', { name: 'Open its audit' }).click();
     await page.waitForURL((u) => u.pathname === auditPath, WAIT);
+  });
+
+  it('a file that cannot be read says which line, and leads back to the column mapping', async () => {
+    // Data row 4 (file line 5: the header is line 1, common practice) gets a word where the applied rate is.
+    const lines = csv.toString('utf8').split('\n');
+    const cells = lines[4].split(',');
+    const applied = lines[0].split(',').findIndex((h) => h.startsWith('applied'));
+    cells[applied] = 'plenty';
+    lines[4] = cells.join(',');
+    const broken = Buffer.from(lines.join('\n'), 'utf8');
+
+    const page = await pageAs('farmer');
+    await page.goto(`${world().baseUrl}/logs/new?prescriptionId=${rx.id}`);
+    await page.getByRole('heading', { level: 1, name: 'Upload a log' }).waitFor();
+    await expect
+      .poll(() => page.getByLabel('Planter', { exact: true }).inputValue(), WAIT)
+      .toBe(rx.planter!.id);
+    await page
+      .getByLabel('Log file')
+      .setInputFiles({ name: 'broken.csv', mimeType: 'text/csv', buffer: broken });
+    await page.getByRole('button', { name: 'Read the file' }).click();
+    await page.getByRole('table', { name: 'Column mapping' }).waitFor(WAIT);
+    // The planter's mapping from the first upload is offered again, the hand-mapped GNSS column with it.
+    expect(await page.getByLabel('Column for gnss speed').inputValue()).toBe(HIDDEN_GNSS);
+    await page.getByRole('button', { name: 'Read the log' }).click();
+
+    const failed = page.getByRole('alert').filter({ hasText: 'broken.csv could not be read' });
+    await failed.waitFor(WAIT);
+    expect(await failed.innerText()).toContain('Line 5:');
+    expect(await failed.innerText()).toContain('plenty');
+    const fix = failed.getByRole('link', { name: 'Fix the column mapping' });
+    expect(await fix.getAttribute('href')).toBe(
+      `/logs/new?prescriptionId=${rx.id}&planterId=${rx.planter!.id}`,
+    );
+    // The list says so too.
+    await page.goto(`${world().baseUrl}/logs`);
+    const row = page.getByRole('table', { name: 'Logs' }).getByRole('row').filter({ hasText: 'broken.csv' });
+    expect(await row.innerText()).toContain('Could not be read');
   });
 
   it('the consultant comments and signs off; the audit then says who signed it and cleaning is closed', async () => {

@@ -6,7 +6,7 @@ import { Button } from '@/components/ui/button';
 import { Loading } from '@/components/ui/loading';
 import { PageHeader } from '@/components/ui/page-header';
 import { ErrorNotice, QueryState } from '@/components/ui/query-state';
-import { auditQueryOptions, useAudit } from '@/features/audit/api/get-audit';
+import { useAudit } from '@/features/audit/api/get-audit';
 import { auditKeys } from '@/features/audit/api/keys';
 import { AuditReport } from '@/features/audit/components/audit-report';
 import { SignOffButton } from '@/features/audit/components/sign-off';
@@ -19,8 +19,8 @@ import { useUnitSystem, useViewer } from '@/lib/viewer';
 export const loader =
   (qc: QueryClient): LoaderFunction =>
   ({ params }) => {
+    // The audit itself is asked for once the log is known to be read (it answers 404 before).
     void qc.prefetchQuery(logQueryOptions(params.id ?? ''));
-    void qc.prefetchQuery(auditQueryOptions(params.id ?? ''));
     return null;
   };
 

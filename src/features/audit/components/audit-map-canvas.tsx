@@ -55,14 +55,14 @@ function colourOf(property: string, stops: Stop[]): ExpressionSpecification {
 const M_PER_PX_Z0 = 40_075_016.68557849 / 512;
 
 /**
- * A circle radius that covers half the swath on the ground at every zoom (so passes read as planted strips),
- * never under 1.2 pixels.
+ * A circle radius of a little over half the swath on the ground at every zoom, so passes read as planted
+ * strips even where the tiles snap points to their pixel grid; never under 1.2 pixels.
  */
 function radiusBySwath(swathM: number, lat: number): ExpressionSpecification {
   const stops: number[] = [];
   for (let z = 8; z <= 22; z += 2) {
     const mPerPx = (M_PER_PX_Z0 * Math.cos((lat * Math.PI) / 180)) / 2 ** z;
-    stops.push(z, Math.max(1.2, swathM / 2 / mPerPx));
+    stops.push(z, Math.max(1.2, (0.6 * swathM) / mPerPx));
   }
   return ['interpolate', ['exponential', 2], ['zoom'], ...stops] as ExpressionSpecification;
 }
