@@ -1,0 +1,883 @@
+// The as-applied part of `npm run bench` (PERFORMANCE.md targets 1–4), run by scripts/bench.mjs with tsx
+// against the throwaway cluster and server it started. Nothing here is a test: it measures, prints and
+// writes its figures as JSON for bench.mjs's table. Everything it makes is invented and seeded.
+//
+//   bench-logs.ts run   env BENCH_URL, BENCH_COOKIE, DATABASE_URL, BENCH_DIR, BENCH_OUT [, BENCH_BIG=1]
+//   bench-logs.ts rss <file.csv> <input.json>   one pipeline run in this process; prints its peak RSS (JSON)
+import {
+  closeSync,
+  createReadStream,
+  existsSync,
+  openSync,
+  readFileSync,
+  statSync,
+  writeFileSync,
+  writeSync,
+} from 'node:fs';
+import { spawnSync } from 'node:child_process';
+import path from 'node:path';
+import { performance } from 'node:perf_hooks';
+import { fileURLToPath } from 'node:url';
+import pg from 'pg';
+import Papa from 'papaparse';
+import { booleanPointInPolygon } from '@turf/turf';
+import type { MultiPolygon, Polygon, Position } from 'geojson';
+import { seededRandom, syntheticLog } from '../shared/audit/synthetic-log';
+import { logToCsv, parseLogCsv, readCsvHeader, suggestMapping } from '../shared/audit/csv-log';
+import { zoneIndexOf } from '../shared/audit/zone-join';
+import { cleanLog } from '../shared/audit/clean-log';
+import { selectColumns, type LogColumns } from '../shared/audit/log-columns';
+import { cleaningSettingsSchema } from '../shared/schemas/as-applied.schema';
+import { rateToSi } from '../shared/rates/rate-units';
+import { runPipeline, type PipelineInput, type PipelineStage } from '../server/logs/pipeline';
+
+const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
+const say = (msg: string) => process.stdout.write(`[bench] ${msg}\n`);
+const fmt = (n: number, d = 0) =>
+  n.toLocaleString('en-US', { maximumFractionDigits: d, minimumFractionDigits: d });
+const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor((xs.length - 1) / 2)];
+const quantile = (xs: number[], q: number) => {
+  const s = [...xs].sort((a, b) => a - b);
+  return s[Math.min(s.length - 1, Math.ceil(q * s.length) - 1)];
+};
+
+/* ------------------------------------------------------------------ the workload: field and zones */
+
+/** Where the invented field lies (near 45° N) and its shape: 8 × 5 cells of a jittered grid, 1 040 m × 625 m. */
+const LON0 = -96.31;
+const LAT0 = 45.02;
+const NX = 8;
+const NY = 5;
+const WIDTH_M = 1040;
+const HEIGHT_M = 625;
+/** Points between two grid nodes along a zone edge (40 zones × (4 × 42 + 1) ≈ 6 800 vertices). */
+const EDGE_POINTS = 41;
+/** Largest sideways wander of an edge, m, and of a grid node, as a fraction of a cell. */
+const EDGE_WANDER_M = 5;
+const NODE_JITTER = 0.18;
+/** Metres per degree at LAT0 (spherical approximation: the field is invented, only its size matters). */
+const M_PER_DEG_LAT = 111_132;
+const M_PER_DEG_LON = 111_320 * Math.cos((LAT0 * Math.PI) / 180);
+
+type Xy = [number, number];
+
+/**
+ * A field split into NX × NY irregular zones: a grid whose nodes are jittered and whose edges wander
+ * (a smooth seeded curve, pinned at both nodes). Neighbouring zones share each edge point for point, and the
+ * field's boundary is the outer ring of the same edges, so the zones tile the field exactly.
+ */
+export function benchField(seed: number): { boundary: Polygon; zones: Polygon[]; areaM2: number } {
+  const random = seededRandom(seed);
+  const cw = WIDTH_M / NX;
+  const ch = HEIGHT_M / NY;
+  const node: Xy[][] = [];
+  for (let i = 0; i <= NX; i++) {
+    node.push([]);
+    for (let j = 0; j <= NY; j++) {
+      const edgeX = i === 0 || i === NX;
+      const edgeY = j === 0 || j === NY;
+      const jx = edgeX ? (random() - 0.5) * 16 : (random() * 2 - 1) * NODE_JITTER * cw;
+      const jy = edgeY ? (random() - 0.5) * 16 : (random() * 2 - 1) * NODE_JITTER * ch;
+      node[i].push([i * cw + jx, j * ch + jy]);
+    }
+  }
+  const wander = (a: Xy, b: Xy): Xy[] => {
+    const [f1, f2] = [1 + Math.floor(random() * 2), 2 + Math.floor(random() * 2)];
+    const [p1, p2] = [random() * 2 * Math.PI, random() * 2 * Math.PI];
+    const len = Math.hypot(b[0] - a[0], b[1] - a[1]);
+    const [nx, ny] = [-(b[1] - a[1]) / len, (b[0] - a[0]) / len];
+    const pts: Xy[] = [a];
+    for (let k = 1; k <= EDGE_POINTS; k++) {
+      const t = k / (EDGE_POINTS + 1);
+      const off =
+        EDGE_WANDER_M *
+        Math.sin(Math.PI * t) *
+        (0.6 * Math.sin(2 * Math.PI * f1 * t + p1) + 0.4 * Math.sin(2 * Math.PI * f2 * t + p2));
+      pts.push([a[0] + (b[0] - a[0]) * t + nx * off, a[1] + (b[1] - a[1]) * t + ny * off]);
+    }
+    pts.push(b);
+    return pts;
+  };
+  // h[i][j]: node (i, j) → (i + 1, j); v[i][j]: node (i, j) → (i, j + 1).
+  const h = Array.from({ length: NX }, (_, i) =>
+    Array.from({ length: NY + 1 }, (_, j) => wander(node[i][j], node[i + 1][j])),
+  );
+  const v = Array.from({ length: NX + 1 }, (_, i) =>
+    Array.from({ length: NY }, (_, j) => wander(node[i][j], node[i][j + 1])),
+  );
+  const deg = ([x, y]: Xy): Position => [
+    Math.round((LON0 + x / M_PER_DEG_LON) * 1e9) / 1e9,
+    Math.round((LAT0 + y / M_PER_DEG_LAT) * 1e9) / 1e9,
+  ];
+  const ring = (edges: Xy[][]): Position[] => {
+    const out: Xy[] = [];
+    for (const e of edges) out.push(...e.slice(0, -1));
+    out.push(out[0]);
+    return out.map(deg);
+  };
+  const rev = (e: Xy[]) => [...e].reverse();
+  const zones: Polygon[] = [];
+  for (let j = 0; j < NY; j++)
+    for (let i = 0; i < NX; i++)
+      zones.push({
+        type: 'Polygon',
+        coordinates: [ring([h[i][j], v[i + 1][j], rev(h[i][j + 1]), rev(v[i][j])])],
+      });
+  const outer: Xy[][] = [];
+  for (let i = 0; i < NX; i++) outer.push(h[i][0]);
+  for (let j = 0; j < NY; j++) outer.push(v[NX][j]);
+  for (let i = NX - 1; i >= 0; i--) outer.push(rev(h[i][NY]));
+  for (let j = NY - 1; j >= 0; j--) outer.push(rev(v[0][j]));
+  const boundary: Polygon = { type: 'Polygon', coordinates: [ring(outer)] };
+  // Shoelace in metres, for the printout.
+  const flat = outer.flatMap((e) => e.slice(0, -1));
+  let a2 = 0;
+  for (let k = 0; k < flat.length; k++) {
+    const [x1, y1] = flat[k];
+    const [x2, y2] = flat[(k + 1) % flat.length];
+    a2 += x1 * y2 - x2 * y1;
+  }
+  return { boundary, zones, areaM2: a2 / 2 };
+}
+
+const vertexCount = (g: MultiPolygon) =>
+  g.coordinates.reduce((s, p) => s + p.reduce((t, r) => t + r.length, 0), 0);
+
+/* ------------------------------------------------------------------ the API */
+
+type Api = {
+  get<T = unknown>(url: string): Promise<T>;
+  send<T = unknown>(method: string, url: string, body?: unknown): Promise<T>;
+};
+
+function api(base: string, cookie: string): Api {
+  const call = async <T>(method: string, url: string, body?: unknown): Promise<T> => {
+    const res = await fetch(`${base}${url}`, {
+      method,
+      headers: { cookie, 'x-sowright-request': '1', ...(body ? { 'content-type': 'application/json' } : {}) },
+      body: body ? JSON.stringify(body) : undefined,
+    });
+    const text = await res.text();
+    if (!res.ok) throw new Error(`${method} ${url} answered ${res.status}: ${text.slice(0, 400)}`);
+    return (text ? JSON.parse(text) : null) as T;
+  };
+  return { get: (url) => call('GET', url), send: (method, url, body) => call(method, url, body) };
+}
+
+type Rx = {
+  id: string;
+  version: number;
+  boundary: MultiPolygon;
+  defaultRateSi: number;
+  planter: { id: string } | null;
+  check: { blocking: boolean } | null;
+  zones: { id: string; name: string; rateSi: number; geometry: MultiPolygon }[];
+};
+
+/**
+ * The benchmark's field, season, product, zone map (40 zones through the zone API) and an approved
+ * prescription, made as the demo agronomist on the demo workspace's first grower.
+ */
+async function makePrescription(a: Api, field: ReturnType<typeof benchField>) {
+  const growers = await a.get<{ items: { id: string }[] }>('/api/growers');
+  const grower = growers.items[0];
+  const farms = await a.get<{ items: { id: string }[] }>(`/api/farms?growerId=${grower.id}`);
+  type Planter = {
+    id: string;
+    name: string;
+    rowCount: number;
+    rowSpacingM: number;
+    rowsPerSection: number;
+    displaySectionLimit: number;
+    holesPerDisc: { crop: string; holes: number }[];
+    discRpmMax: number;
+  };
+  const planters = await a.get<{ items: Planter[] }>(`/api/planters?growerId=${grower.id}`);
+  if (!farms.items.length || !planters.items.length)
+    throw new Error('the demo grower has no farm or no planter: run the demo seed (server/db/cli.ts seed)');
+  const planter = planters.items[0];
+  const f = await a.send<{ id: string; areaM2: number }>('POST', '/api/fields', {
+    farmId: farms.items[0].id,
+    name: 'Benchmark field',
+    notes: 'Invented by npm run bench',
+    boundary: field.boundary,
+  });
+  const season = await a.send<{ id: string }>('POST', '/api/seasons', {
+    fieldId: f.id,
+    year: 2027,
+    crop: 'corn',
+    plannedPlantingDate: null,
+  });
+  const product = await a.send<{ id: string }>('POST', '/api/products', {
+    kind: 'seed',
+    name: 'Benchmark hybrid',
+    crop: 'corn',
+    rateKind: 'count',
+    unitName: 'unit',
+    unitSize: 80_000, // DOMAIN.md §3 (common practice: 80 000 corn seeds a unit)
+    pricePerUnit: 300,
+    currency: 'USD',
+  });
+  type ZoneMap = {
+    id: string;
+    version: number;
+    zones: { features: { properties: { id: string; isDefault: boolean } }[] };
+    analysis: { overlaps: unknown[]; gapAreaM2: number };
+  };
+  let map = await a.send<ZoneMap>('POST', '/api/zone-maps', {
+    fieldId: f.id,
+    seasonId: season.id,
+    name: 'Benchmark zones',
+  });
+  // The new map's one default zone covers the field: the 40 zones replace it.
+  for (const d of map.zones.features.filter((z) => z.properties.isDefault))
+    map = await a.send('DELETE', `/api/zone-maps/${map.id}/zones/${d.properties.id}?version=${map.version}`);
+  for (const [k, zone] of field.zones.entries()) {
+    map = await a.send('POST', `/api/zone-maps/${map.id}/zones`, {
+      version: map.version,
+      name: `Zone ${String(k + 1).padStart(2, '0')}`,
+      geometry: zone,
+      classValue: null,
+      productivityIndex: null,
+    });
+  }
+  if (map.analysis.overlaps.length)
+    throw new Error(
+      `the benchmark zones overlap (${map.analysis.overlaps.length} overlaps): the grid is wrong`,
+    );
+  const perAc = (x: number) => rateToSi(x, 'seeds/ac');
+  let rx = await a.send<Rx>('POST', '/api/prescriptions', {
+    zoneMapId: map.id,
+    productId: product.id,
+    planterId: planter.id,
+    name: 'Benchmark rates',
+    rateUnit: 'seeds/ac',
+    defaultRateSi: perAc(32_000),
+    outOfFieldRateSi: 0,
+    minRateSi: perAc(20_000),
+    maxRateSi: perAc(40_000),
+  });
+  const random = seededRandom(404);
+  rx = await a.send<Rx>('PUT', `/api/prescriptions/${rx.id}`, {
+    version: rx.version,
+    name: 'Benchmark rates',
+    productId: product.id,
+    planterId: planter.id,
+    rateUnit: 'seeds/ac',
+    defaultRateSi: perAc(32_000),
+    outOfFieldRateSi: 0,
+    minRateSi: perAc(20_000),
+    maxRateSi: perAc(40_000),
+    rates: rx.zones.map((z) => ({ zoneId: z.id, rateSi: perAc(28_000 + 500 * Math.floor(random() * 21)) })),
+  });
+  if (rx.check?.blocking)
+    rx = await a.send<Rx>('POST', `/api/prescriptions/${rx.id}/accept-check`, {
+      version: rx.version,
+      reason: 'Benchmark prescription: invented rates, never planted',
+    });
+  rx = await a.send<Rx>('POST', `/api/prescriptions/${rx.id}/approve`, { version: rx.version });
+  return { rx, planter, fieldAreaM2: f.areaM2 };
+}
+
+/* ------------------------------------------------------------------ the logs */
+
+/** The 7 columns of the workload: time, lon, lat, wheel speed, GNSS speed, target, applied. */
+const CSV_UNITS = {
+  time: 'epoch-s',
+  rate: 'seeds/ac',
+  speed: 'm/s',
+  decimals: { time: 3, position: 9, speed: 4, rate: 2 },
+} as const;
+
+/** Writes the first n points of the log as CSV, in chunks (logToCsv of each slice, one header). */
+function writeLogCsv(file: string, log: LogColumns, n: number) {
+  const fd = openSync(file, 'w');
+  const CHUNK = 200_000;
+  try {
+    for (let from = 0; from < n; from += CHUNK) {
+      const to = Math.min(n, from + CHUNK);
+      const index = new Uint32Array(to - from);
+      for (let i = 0; i < index.length; i++) index[i] = from + i;
+      const text = logToCsv(selectColumns(log, index), CSV_UNITS);
+      writeSync(fd, from === 0 ? text : text.slice(text.indexOf('\n') + 1));
+    }
+  } finally {
+    closeSync(fd);
+  }
+}
+
+/* ------------------------------------------------------------------ (a) the byte-level floor */
+
+const POW10 = Array.from({ length: 23 }, (_, k) => 10 ** k);
+
+/**
+ * Read the file and scan its bytes into one Float64Array (row after row; a column is every ncol-th value):
+ * count lines, then per field an optional '-', digits, an optional '.' and digits, one separator byte. No
+ * mapping, no validation, no empty fields, no quotes.
+ */
+export function parseFloor(file: string) {
+  const b = readFileSync(file);
+  let lines = 0;
+  for (let i = b.indexOf(10); i >= 0; i = b.indexOf(10, i + 1)) lines++;
+  const headerEnd = b.indexOf(10);
+  let ncol = 1;
+  for (let i = 0; i < headerEnd; i++) if (b[i] === 44) ncol++;
+  const out = new Float64Array((lines - 1) * ncol);
+  const len = b.length;
+  let k = 0;
+  let i = headerEnd + 1;
+  while (i < len) {
+    let c = b[i];
+    const neg = c === 45;
+    if (neg) c = b[++i];
+    let m = 0;
+    while (c >= 48 && c <= 57) {
+      m = m * 10 + (c - 48);
+      c = b[++i];
+    }
+    let scale = 0;
+    if (c === 46) {
+      c = b[++i];
+      while (c >= 48 && c <= 57) {
+        m = m * 10 + (c - 48);
+        scale++;
+        c = b[++i];
+      }
+    }
+    const x = m / POW10[scale];
+    out[k++] = neg ? -x : x;
+    i++;
+  }
+  return { n: k / ncol, out, bytes: len };
+}
+
+/* ------------------------------------------------------------------ (b) ours */
+
+type BenchInput = Omit<PipelineInput, 'bytes' | 'fileName' | 'format'>;
+
+async function ours(file: string, input: BenchInput) {
+  const stages: Partial<Record<PipelineStage | 'end', number>> = {};
+  const t0 = performance.now();
+  const bytes = new Uint8Array(readFileSync(file));
+  const tRead = performance.now();
+  const out = await runPipeline(
+    { ...input, bytes, fileName: path.basename(file), format: 'csv' },
+    (stage) => {
+      stages[stage] ??= performance.now();
+    },
+  );
+  const t1 = performance.now();
+  return {
+    ms: t1 - t0,
+    readMs: tRead - t0,
+    parseMs: (stages.cleaning ?? t1) - tRead,
+    joinCleanMs: (stages.auditing ?? t1) - (stages.cleaning ?? t1),
+    auditMs: t1 - (stages.auditing ?? t1),
+    pointsRead: out.pointsRead,
+    kept: out.removedBy.reduce((s, r) => s + (r === 0 ? 1 : 0), 0),
+    zonesWithPoints: out.result.zones.filter((z) => z.stats.points > 0).length,
+  };
+}
+
+/** Where (b)'s time goes: each step of the pipeline timed on its own (one run, for the report). */
+function oursProfile(file: string, input: BenchInput) {
+  const at = [performance.now()];
+  const bytes = new Uint8Array(readFileSync(file));
+  at.push(performance.now());
+  const parsed = parseLogCsv(bytes, input.mapping);
+  at.push(performance.now());
+  const zone = zoneIndexOf(
+    parsed.lon,
+    parsed.lat,
+    input.zones.map((z) => z.geometry),
+    input.boundary,
+  );
+  at.push(performance.now());
+  cleanLog(parsed, input.cleaning, zone);
+  at.push(performance.now());
+  const step = (k: number) => at[k + 1] - at[k];
+  return { readMs: step(0), parseMs: step(1), joinMs: step(2), cleanMs: step(3) };
+}
+
+/* ------------------------------------------------------------------ (c) the peer */
+
+/** papaparse (streaming step callback) + Turf booleanPointInPolygon per point over the zones + a mean per zone. */
+async function peer(file: string, zones: MultiPolygon[]) {
+  const t0 = performance.now();
+  const sum = new Float64Array(zones.length);
+  const count = new Float64Array(zones.length);
+  let rows = 0;
+  let header = true;
+  await new Promise<void>((resolve, reject) => {
+    Papa.parse<string[]>(createReadStream(file), {
+      step: (r) => {
+        if (header) {
+          header = false;
+          return;
+        }
+        const d = r.data;
+        if (d.length < 7) return;
+        rows++;
+        const pt = [Number(d[1]), Number(d[2])];
+        const applied = Number(d[6]);
+        for (let z = 0; z < zones.length; z++)
+          if (booleanPointInPolygon(pt, zones[z])) {
+            sum[z] += applied;
+            count[z]++;
+            break;
+          }
+      },
+      complete: () => resolve(),
+      error: (e: Error) => reject(e),
+    });
+  });
+  const means = Array.from(sum, (s, z) => (count[z] ? s / count[z] : NaN));
+  return { ms: performance.now() - t0, rows, zonesWithPoints: means.filter((m) => !Number.isNaN(m)).length };
+}
+
+/* ------------------------------------------------------------------ (d) peak RSS in a child */
+
+function rssChild(file: string, inputFile: string) {
+  const res = spawnSync(
+    process.execPath,
+    ['--import', 'tsx', path.join(ROOT, 'scripts', 'bench-logs.ts'), 'rss', file, inputFile],
+    {
+      cwd: ROOT,
+      encoding: 'utf8',
+      maxBuffer: 1 << 20,
+    },
+  );
+  if (res.status !== 0) throw new Error(`the RSS child failed (${res.status}): ${res.stderr.slice(-2000)}`);
+  return JSON.parse(res.stdout.trim().split('\n').pop()!) as {
+    maxRssMb: number;
+    baseRssMb: number;
+    ms: number;
+  };
+}
+
+async function rssMain(file: string, inputFile: string) {
+  const input = JSON.parse(readFileSync(inputFile, 'utf8')) as BenchInput;
+  const baseRssMb = process.memoryUsage().rss / 2 ** 20;
+  const r = await ours(file, input);
+  // maxRSS is in KiB (getrusage).
+  process.stdout.write(
+    `${JSON.stringify({ maxRssMb: process.resourceUsage().maxRSS / 1024, baseRssMb, ms: r.ms })}\n`,
+  );
+}
+
+/* ------------------------------------------------------------------ (e) psql \copy */
+
+/** psql on the benchmark's database: run(sql) answers stdout; timed(sql) answers the wall time, ms. */
+function psqlOn(databaseUrl: string) {
+  const u = new URL(databaseUrl);
+  const bin = existsSync('/usr/lib/postgresql/15/bin/psql') ? '/usr/lib/postgresql/15/bin/psql' : 'psql';
+  const env = { ...process.env, PGPASSWORD: decodeURIComponent(u.password) };
+  const args = [
+    '-h',
+    u.hostname,
+    '-p',
+    u.port,
+    '-U',
+    decodeURIComponent(u.username),
+    '-d',
+    u.pathname.slice(1),
+  ];
+  const run = (sql: string) => {
+    const r = spawnSync(bin, [...args, '-v', 'ON_ERROR_STOP=1', '-qAt', '-c', sql], {
+      env,
+      encoding: 'utf8',
+    });
+    if (r.status !== 0) throw new Error(`psql failed: ${r.stderr}`);
+    return r.stdout;
+  };
+  const timed = (sql: string) => {
+    const t0 = performance.now();
+    run(sql);
+    return performance.now() - t0;
+  };
+  return { run, timed };
+}
+
+const quoted = (file: string) => `'${file.replace(/'/g, "''")}'`;
+
+/** psql \copy of the CSV into a plain table (seven float8 columns, no index), timed with psql's start. */
+function psqlCopy(databaseUrl: string, file: string) {
+  const { run, timed } = psqlOn(databaseUrl);
+  run(
+    'DROP TABLE IF EXISTS bench_plain_points; CREATE TABLE bench_plain_points (t float8, lon float8, lat float8, wheel_mps float8, gnss_mps float8, target float8, applied float8)',
+  );
+  const ms = timed(`\\copy bench_plain_points FROM ${quoted(file)} WITH (FORMAT csv, HEADER true)`);
+  const n = Number(run('SELECT count(*) FROM bench_plain_points').trim());
+  run('DROP TABLE bench_plain_points');
+  return { ms, n };
+}
+
+/**
+ * Where (e)'s time goes: the rows our import stored, written out as COPY text, then loaded by psql \copy
+ * into copies of as_applied_points with more and more of what the real table has (the generated point
+ * column; the primary key and GiST index; the foreign key to the log).
+ */
+function copyProfile(databaseUrl: string, dir: string, logId: string) {
+  const { run, timed } = psqlOn(databaseUrl);
+  const file = path.join(dir, 'points.copy');
+  const cols =
+    'log_id, seq, t, lon, lat, target, applied, applied_true, wheel_mps, gnss_mps, width_m, area_m2, zone, removed_by';
+  run(
+    `\\copy (SELECT ${cols} FROM as_applied_points WHERE log_id = '${logId}' ORDER BY seq) TO ${quoted(file)}`,
+  );
+  const variants = [
+    ['point column only', 'INCLUDING GENERATED INCLUDING DEFAULTS', ''],
+    ['+ primary key and GiST index', 'INCLUDING ALL', ''],
+    ['+ foreign key to the log', 'INCLUDING ALL', ', FOREIGN KEY (log_id) REFERENCES as_applied_logs (id)'],
+  ] as const;
+  const out: { what: string; ms: number }[] = [];
+  for (const [what, like, fk] of variants) {
+    run(
+      `DROP TABLE IF EXISTS bench_points_copy; CREATE TABLE bench_points_copy (LIKE as_applied_points ${like}${fk})`,
+    );
+    out.push({ what, ms: timed(`\\copy bench_points_copy (${cols}) FROM ${quoted(file)}`) });
+  }
+  run('DROP TABLE bench_points_copy');
+  return out;
+}
+
+/* ------------------------------------------------------------------ (f) upload to audit ready */
+
+async function uploadToReady(
+  base: string,
+  cookie: string,
+  databaseUrl: string,
+  file: string,
+  rx: Rx,
+  planterId: string,
+) {
+  const a = api(base, cookie);
+  const bytes = readFileSync(file);
+  const db = new pg.Client({ connectionString: databaseUrl, application_name: 'sowright-bench-watch' });
+  await db.connect();
+  const seen: Record<string, number> = {};
+  const t0 = performance.now();
+  const form = new FormData();
+  form.set('prescriptionId', rx.id);
+  form.set('file', new Blob([bytes], { type: 'text/csv' }), path.basename(file));
+  const pres = await fetch(`${base}/api/logs/preview`, {
+    method: 'POST',
+    headers: { cookie, 'x-sowright-request': '1' },
+    body: form,
+  });
+  if (!pres.ok)
+    throw new Error(`POST /api/logs/preview answered ${pres.status}: ${(await pres.text()).slice(0, 400)}`);
+  const preview = (await pres.json()) as { fileId: string; suggested: unknown; remembered: unknown };
+  const tPreview = performance.now();
+  const log = await a.send<{ id: string }>('POST', '/api/logs', {
+    fileId: preview.fileId,
+    prescriptionId: rx.id,
+    planterId,
+    mapping: preview.remembered ?? preview.suggested,
+    meteredOn: 'gnss',
+  });
+  // The stages as the database shows them (every 10 ms), and the answer of the API (every 50 ms).
+  let watching = true;
+  const watch = (async () => {
+    while (watching) {
+      const r = await db.query<{ status: string }>('SELECT status FROM as_applied_logs WHERE id = $1', [
+        log.id,
+      ]);
+      const s = r.rows[0]?.status;
+      if (s && seen[s] === undefined) seen[s] = performance.now();
+      await new Promise((res) => setTimeout(res, 10));
+    }
+  })();
+  let status = '';
+  let last: { status: string; error: unknown; pointsRead: number | null; pointsKept: number | null } | null =
+    null;
+  const until = Date.now() + 10 * 60_000;
+  while (status !== 'ready' && status !== 'failed') {
+    if (Date.now() > until) throw new Error(`log ${log.id} still ${status} after 10 minutes`);
+    await new Promise((res) => setTimeout(res, 50));
+    last = await a.get(`/api/logs/${log.id}`);
+    status = last!.status;
+  }
+  const t1 = performance.now();
+  watching = false;
+  await watch;
+  await db.end();
+  if (status === 'failed') throw new Error(`the import failed: ${JSON.stringify(last!.error)}`);
+  return {
+    logId: log.id,
+    ms: t1 - t0,
+    previewMs: tPreview - t0,
+    pipelineMs: (seen.storing ?? t1) - (seen.reading ?? seen.queued ?? tPreview),
+    storeMs: (seen.ready ?? t1) - (seen.storing ?? t1),
+    storingSeen: seen.storing !== undefined && seen.ready !== undefined,
+    pointsRead: last!.pointsRead,
+    pointsKept: last!.pointsKept,
+  };
+}
+
+/* ------------------------------------------------------------------ (g) vector tiles */
+
+function tileOf(lon: number, lat: number, z: number) {
+  const n = 2 ** z;
+  const r = (lat * Math.PI) / 180;
+  return {
+    x: Math.floor(((lon + 180) / 360) * n),
+    y: Math.floor(((1 - Math.log(Math.tan(r) + 1 / Math.cos(r)) / Math.PI) / 2) * n),
+  };
+}
+
+async function tiles(base: string, cookie: string, logId: string, boundary: MultiPolygon) {
+  const ring = boundary.coordinates[0][0];
+  const lons = ring.map((p) => p[0]);
+  const lats = ring.map((p) => p[1]);
+  const [w, e, s, n] = [Math.min(...lons), Math.max(...lons), Math.min(...lats), Math.max(...lats)];
+  const random = seededRandom(1212);
+  const get = async (z: number, x: number, y: number) => {
+    const t0 = performance.now();
+    const res = await fetch(`${base}/api/logs/${logId}/tiles/${z}/${x}/${y}`, { headers: { cookie } });
+    const body = new Uint8Array(await res.arrayBuffer());
+    if (!res.ok) throw new Error(`tile ${z}/${x}/${y} answered ${res.status}`);
+    return { ms: performance.now() - t0, bytes: body.length };
+  };
+  const c = tileOf((w + e) / 2, (s + n) / 2, 15);
+  await get(15, c.x, c.y); // warm-up, not counted
+  const perZoom: { z: number; distinct: number; p50: number; p95: number; maxMs: number; maxKb: number }[] =
+    [];
+  const all: number[] = [];
+  let maxBytes = 0;
+  for (let z = 12; z <= 18; z++) {
+    const times: number[] = [];
+    const keys = new Set<string>();
+    let zMax = 0;
+    for (let k = 0; k < 50; k++) {
+      const t = tileOf(w + random() * (e - w), s + random() * (n - s), z);
+      keys.add(`${t.x}/${t.y}`);
+      const r = await get(z, t.x, t.y);
+      times.push(r.ms);
+      zMax = Math.max(zMax, r.bytes);
+    }
+    all.push(...times);
+    maxBytes = Math.max(maxBytes, zMax);
+    perZoom.push({
+      z,
+      distinct: keys.size,
+      p50: quantile(times, 0.5),
+      p95: quantile(times, 0.95),
+      maxMs: Math.max(...times),
+      maxKb: zMax / 1024,
+    });
+    say(
+      `  z${z}: ${keys.size} distinct tiles of 50, p50 ${fmt(quantile(times, 0.5), 1)} ms, p95 ${fmt(quantile(times, 0.95), 1)} ms, max ${fmt(Math.max(...times), 1)} ms, largest ${fmt(zMax / 1024, 1)} KB`,
+    );
+  }
+  return { p95: quantile(all, 0.95), maxKb: maxBytes / 1024, perZoom };
+}
+
+/* ------------------------------------------------------------------ the run */
+
+async function main() {
+  const base = process.env.BENCH_URL!;
+  const cookie = process.env.BENCH_COOKIE!;
+  const databaseUrl = process.env.DATABASE_URL!;
+  const dir = process.env.BENCH_DIR!;
+  const big = process.env.BENCH_BIG === '1';
+  if (!base || !cookie || !databaseUrl || !dir || !process.env.BENCH_OUT)
+    throw new Error('bench-logs.ts run needs BENCH_URL, BENCH_COOKIE, DATABASE_URL, BENCH_DIR and BENCH_OUT');
+  const a = api(base, cookie);
+
+  say('workload: a field of 40 irregular zones, a prescription through the API');
+  const field = benchField(2027);
+  const { rx, planter, fieldAreaM2 } = await makePrescription(a, field);
+  const zoneVertices = rx.zones.reduce((s, z) => s + vertexCount(z.geometry), 0);
+  say(
+    `  field ${fmt(fieldAreaM2 / 1e4, 1)} ha at ${LAT0}° N, ${rx.zones.length} zones, ${fmt(zoneVertices)} vertices in all (as stored)`,
+  );
+  const widthM = planter.rowCount * planter.rowSpacingM;
+  const sizes = big ? [100_000, 1_000_000, 5_000_000] : [100_000, 1_000_000];
+  const t0 = performance.now();
+  const log = syntheticLog({
+    boundary: rx.boundary,
+    zones: rx.zones.map((z) => ({ geometry: z.geometry, targetSi: z.rateSi })),
+    defaultTargetSi: rx.defaultRateSi,
+    swathM: widthM,
+    speedMps: 2.2352, // 5 mph
+    hz: 10,
+    startTime: Date.UTC(2027, 3, 28, 13) / 1000,
+    seed: 11,
+    faults: { noiseCv: 0.03 },
+    maxPoints: sizes[sizes.length - 1],
+  });
+  const seven: LogColumns = {
+    ...log,
+    heading: null,
+    speedSource: null,
+    widthM: null,
+    workOn: null,
+    rows: [],
+  };
+  const files: Record<number, string> = {};
+  for (const n of sizes) {
+    files[n] = path.join(dir, `log-${n}.csv`);
+    writeLogCsv(files[n], seven, n);
+  }
+  const bytes1m = statSync(files[1_000_000]).size;
+  say(
+    `  synthetic logs at 10 Hz, ${fmt(widthM, 2)} m swath (the demo planter); the 1 M file ${fmt(bytes1m / 1e6, 1)} MB, ` +
+      `${fmt(bytes1m / 1_000_000, 1)} bytes a row; made in ${fmt((performance.now() - t0) / 1000, 1)} s`,
+  );
+
+  const header = readCsvHeader(readFileSync(files[100_000]).subarray(0, 4096));
+  // Typed through a variable, not the literal, so the bench reads with and without PipelineInput.planter.
+  const inputLiteral = {
+    mapping: suggestMapping(header.columns, header.sample),
+    cleaning: cleaningSettingsSchema.parse({}),
+    boundary: rx.boundary,
+    zones: rx.zones.map((z) => ({ zoneId: z.id, name: z.name, targetSi: z.rateSi, geometry: z.geometry })),
+    defaultTargetSi: rx.defaultRateSi,
+    bandFraction: 0.15,
+    fallbackWidthM: widthM,
+    planter: {
+      rowCount: planter.rowCount,
+      rowSpacingM: planter.rowSpacingM,
+      rowsPerSection: planter.rowsPerSection,
+      displaySectionLimit: planter.displaySectionLimit,
+      holesPerDisc: planter.holesPerDisc.find((h) => h.crop === 'corn')?.holes ?? null,
+      discRpmMax: planter.discRpmMax,
+    },
+    meteredOn: 'gnss' as const,
+    unitSize: 80_000,
+    pricePerUnit: 300,
+    findings: {
+      rateUnit: 'seeds/ac' as const,
+      unitSystem: 'imperial' as const,
+      unitName: 'unit',
+      currency: 'USD',
+      productKind: 'seed' as const,
+    },
+  };
+  const input: BenchInput = inputLiteral;
+  const inputFile = path.join(dir, 'pipeline-input.json');
+  writeFileSync(inputFile, JSON.stringify(input));
+
+  // (a) and (b), alternating, median of three after a warm-up on 100 k.
+  say('(a) byte-level parse floor and (b) our audit, 1 M points, in this process (median of 3)');
+  parseFloor(files[100_000]);
+  await ours(files[100_000], input);
+  const floorMs: number[] = [];
+  const oursRuns: Awaited<ReturnType<typeof ours>>[] = [];
+  for (let k = 0; k < 3; k++) {
+    const t = performance.now();
+    const f = parseFloor(files[1_000_000]);
+    floorMs.push(performance.now() - t);
+    if (f.n !== 1_000_000) throw new Error(`the floor read ${f.n} rows, not 1 000 000`);
+    oursRuns.push(await ours(files[1_000_000], input));
+  }
+  const floor = median(floorMs);
+  const our = oursRuns.sort((x, y) => x.ms - y.ms)[1];
+  say(`  (a) floor: ${fmt(floor)} ms (${floorMs.map((x) => fmt(x)).join(', ')})`);
+  say(
+    `  (b) ours: ${fmt(our.ms)} ms (${oursRuns.map((x) => fmt(x.ms)).join(', ')}): read ${fmt(our.readMs)}, parse ${fmt(our.parseMs)}, ` +
+      `join + clean ${fmt(our.joinCleanMs)}, audit + findings ${fmt(our.auditMs)} ms; ${fmt(our.pointsRead)} read, ${fmt(our.kept)} kept, ${our.zonesWithPoints} zones with points`,
+  );
+
+  const profile = oursProfile(files[1_000_000], input);
+  say(
+    `  (b) step by step: read ${fmt(profile.readMs)}, parseLogCsv ${fmt(profile.parseMs)}, zoneIndexOf ${fmt(profile.joinMs)}, cleanLog ${fmt(profile.cleanMs)} ms`,
+  );
+
+  let big5: { floorMs: number; oursMs: number } | null = null;
+  if (big) {
+    const t = performance.now();
+    parseFloor(files[5_000_000]);
+    const fm = performance.now() - t;
+    const o = await ours(files[5_000_000], input);
+    big5 = { floorMs: fm, oursMs: o.ms };
+    say(`  5 M points: floor ${fmt(fm)} ms, ours ${fmt(o.ms)} ms (${fmt(o.ms / fm, 2)}×)`);
+  }
+
+  // (c) the peer: on 100 k first; on 1 M when that would take under a minute, else scaled.
+  say('(c) peer: papaparse streaming + Turf booleanPointInPolygon over the zones + a mean per zone');
+  const p100 = await peer(
+    files[100_000],
+    input.zones.map((z) => z.geometry),
+  );
+  say(`  100 k: ${fmt(p100.ms)} ms, ${p100.zonesWithPoints} zones with points`);
+  let peerMs: number;
+  let peerNote: string;
+  if (p100.ms * 10 < 60_000) {
+    const p1m = await peer(
+      files[1_000_000],
+      input.zones.map((z) => z.geometry),
+    );
+    peerMs = p1m.ms;
+    peerNote = 'measured on 1 M';
+    say(`  1 M: ${fmt(p1m.ms)} ms`);
+  } else {
+    peerMs = p100.ms * 10;
+    peerNote = 'measured on 100 k, scaled ×10 (linear)';
+    say(`  1 M: ${fmt(peerMs)} ms (${peerNote})`);
+  }
+
+  // (d) peak RSS of (b) in a child of its own.
+  say('(d) peak RSS of our audit in a child process of its own (tsx loaded)');
+  const rss1 = rssChild(files[1_000_000], inputFile);
+  say(
+    `  1 M: peak ${fmt(rss1.maxRssMb)} MB (the child with tsx and nothing read: ${fmt(rss1.baseRssMb)} MB)`,
+  );
+  const rss5 = big ? rssChild(files[5_000_000], inputFile) : null;
+  if (rss5) say(`  5 M: peak ${fmt(rss5.maxRssMb)} MB`);
+
+  // (e) psql \copy of the same CSV into a plain table; (f) upload to audit ready through the API, whose
+  // storing step is our COPY into as_applied_points (generated geometry, GiST index, primary key).
+  say('(e) psql \\copy of the 1 M CSV into a plain table on the same cluster');
+  const psql = psqlCopy(databaseUrl, files[1_000_000]);
+  say(`  ${fmt(psql.ms)} ms for ${fmt(psql.n)} rows`);
+  say('(f) upload to audit ready through the API (preview + create, poll GET /api/logs/:id)');
+  const e2e = await uploadToReady(base, cookie, databaseUrl, files[1_000_000], rx, planter.id);
+  say(
+    `  ${fmt(e2e.ms)} ms: preview ${fmt(e2e.previewMs)}, pipeline in the worker ${fmt(e2e.pipelineMs)}, storing (our COPY + audit, one transaction) ${fmt(e2e.storeMs)} ms; ${fmt(e2e.pointsRead ?? 0)} points stored`,
+  );
+
+  const copySteps = copyProfile(databaseUrl, dir, e2e.logId);
+  say(
+    `  (e) profile, psql \\copy of the same stored rows as COPY text into a copy of as_applied_points: ${copySteps
+      .map((c) => `${c.what} ${fmt(c.ms)} ms`)
+      .join('; ')}`,
+  );
+
+  say('(g) vector tiles of the stored 1 M-point log: 50 random tiles over the field at each zoom 12–18');
+  const tile = await tiles(base, cookie, e2e.logId, rx.boundary);
+
+  const out = {
+    workload: {
+      fieldHa: fieldAreaM2 / 1e4,
+      zones: rx.zones.length,
+      zoneVertices,
+      bytesPerRow: bytes1m / 1_000_000,
+      fileMb: bytes1m / 1e6,
+    },
+    floorMs: floor,
+    ours: our,
+    profile,
+    copySteps,
+    peerMs,
+    peerNote,
+    rss1,
+    rss5,
+    big5,
+    psqlMs: psql.ms,
+    e2e,
+    tiles: tile,
+  };
+  writeFileSync(process.env.BENCH_OUT!, JSON.stringify(out, null, 2));
+}
+
+if (process.argv[1] && path.resolve(process.argv[1]) === fileURLToPath(import.meta.url)) {
+  const [mode, ...rest] = process.argv.slice(2);
+  if (mode === 'rss') await rssMain(rest[0], rest[1]);
+  else if (mode === 'run') await main();
+  else {
+    process.stderr.write('usage: bench-logs.ts run | bench-logs.ts rss <file.csv> <input.json>\n');
+    process.exit(2);
+  }
+}
