@@ -14,7 +14,7 @@ export type SyntheticLogOptions = {
   zones: { geometry: MultiPolygon; targetSi: number }[];
   /** The rate where no zone holds the point (and in turns). */
   defaultTargetSi: number;
-  /** Distance between passes, m (the planter's working width). */
+  /** The planter's working width, m: the distance between passes (less faults.overlapM). */
   swathM: number;
   speedMps: number;
   /** Points per second. */
@@ -35,6 +35,12 @@ export type SyntheticLogOptions = {
     lowRow?: { row: number; factor: number; rowCount: number };
     /** Applied noise, coefficient of variation. */
     noiseCv?: number;
+    /**
+     * Neighbouring passes overlap by this many metres: passes are spaced swathM − overlapM apart (the first
+     * still starts swathM / 2 in from the edge). The log then also has a sectionsOn column: 1 (as a fraction
+     * of the total: every section on, no automatic section control) where planting, 0 in turns.
+     */
+    overlapM?: number;
   };
   /** Stop at this many points; a field covered sooner is covered again (time running on) until then. */
   maxPoints?: number;
@@ -166,13 +172,13 @@ class Column<T extends Float64Array | Uint8Array> {
 type PassEnd = { u: number; v: number; dir: number; t: number };
 
 /**
- * A log of back-and-forth passes spaced `swathM` apart over the boundary's bounding box, one point every
- * 1/hz s at `speedMps` (± 1 % seeded noise), kept only inside the boundary; between passes the time jumps
- * by TURN_S with a few slow (TURN_SPEED_MPS) points outside the boundary marked work off (applied 0). Each
- * point carries the target of the zone holding it and an applied rate with the faults asked for: lag (the
- * target of lagS seconds earlier), noise (noiseCv), the disc limit (min), and slip (the wheel reads
- * v_true / (1 − s); the controller meters on it, so the true population is target / (1 − s) while the
- * LOGGED applied stays at target: the log hides it, DOMAIN.md §5). Wheel and GNSS speeds are both filled;
+ * A log of back-and-forth passes spaced `swathM` (less faults.overlapM) apart over the boundary's bounding
+ * box, one point every 1/hz s at `speedMps` (± 1 % seeded noise), kept only inside the boundary; between
+ * passes the time jumps by TURN_S with a few slow (TURN_SPEED_MPS) points outside the boundary marked work
+ * off (applied 0). Each point carries the target of the zone holding it and an applied rate with the faults
+ * asked for: lag (the target of lagS seconds earlier), noise (noiseCv), the disc limit (min), and slip (the
+ * wheel reads v_true / (1 − s); the controller meters on it, so the true population is target / (1 − s) while
+ * the LOGGED applied stays at target: the log hides it, DOMAIN.md §5). Wheel and GNSS speeds are both filled;
  * the speed source is the wheel for every point when slip is given, else GNSS. Same options, same arrays.
  */
 export function syntheticLog(opts: SyntheticLogOptions): LogColumns {
@@ -180,6 +186,10 @@ export function syntheticLog(opts: SyntheticLogOptions): LogColumns {
   const faults = opts.faults ?? {};
   if (!(swathM > 0) || !(speedMps > 0) || !(hz > 0))
     throw new Error('swathM, speedMps and hz must be positive');
+  const overlapM = faults.overlapM ?? 0;
+  if (!(overlapM >= 0 && overlapM < swathM))
+    throw new Error(`faults.overlapM must be at least 0 and less than swathM (${swathM} m), got ${overlapM}`);
+  const spacingM = swathM - overlapM;
   const maxPoints = opts.maxPoints ?? Infinity;
   const alongLon = !opts.headingAlongLat;
   const random = seededRandom(seed);
@@ -233,8 +243,8 @@ export function syntheticLog(opts: SyntheticLogOptions): LogColumns {
   // a longitude (north–south passes, stepped east along the middle parallel).
   const passV = (k: number) =>
     alongLon
-      ? offsetPosition([w, s], 0, swathM / 2 + k * swathM)[1]
-      : w + (swathM / 2 + k * swathM) / mPerDegLon(midLat);
+      ? offsetPosition([w, s], 0, swathM / 2 + k * spacingM)[1]
+      : w + (swathM / 2 + k * spacingM) / mPerDegLon(midLat);
   const vEnd = alongLon ? nn : e;
   const zoneGeoms = zones.map((z) => z.geometry);
   const zoneBoxes = zoneGeoms.map(bboxOf);
@@ -379,7 +389,7 @@ export function syntheticLog(opts: SyntheticLogOptions): LogColumns {
     gnssMps: col.gnss.done(n),
     speedSource: new Uint8Array(n).fill(slip ? SPEED_SOURCE_CODE.wheel : SPEED_SOURCE_CODE.gnss),
     widthM: new Float64Array(n).fill(swathM),
-    sectionsOn: null,
+    sectionsOn: faults.overlapM === undefined ? null : Float64Array.from(work),
     workOn: work,
     rows,
   };
