@@ -39,6 +39,10 @@ type LogContext = {
   createdBy: string | null;
   planterId: string;
   seasonId: string;
+  rowsPerSection: number;
+  displaySectionLimit: number;
+  holesPerDisc: number | null;
+  discRpmMax: number;
 };
 
 export type ImportDeps = {
@@ -73,7 +77,11 @@ async function contextOf(sequelize: Sequelize, logId: string): Promise<LogContex
             r.id AS "prescriptionId", r.default_rate_si AS "defaultRateSi", r.rate_unit AS "rateUnit",
             pl.row_count AS "rowCount", pl.row_spacing_m AS "rowSpacingM", r.product_snapshot AS "productSnapshot",
             a.band_fraction AS band, u.unit_system AS "unitSystem", l.created_by AS "createdBy",
-            l.planter_id AS "planterId", l.crop_season_id AS "seasonId"
+            l.planter_id AS "planterId", l.crop_season_id AS "seasonId",
+            pl.rows_per_section AS "rowsPerSection", pl.display_section_limit AS "displaySectionLimit",
+            pl.disc_rpm_max AS "discRpmMax",
+            (SELECT (h->>'holes')::int FROM crop_seasons s, jsonb_array_elements(pl.holes_per_disc) h
+              WHERE s.id = l.crop_season_id AND h->>'crop' = s.crop LIMIT 1) AS "holesPerDisc"
        FROM as_applied_logs l
        JOIN log_files lf ON lf.id = l.file_id
        JOIN prescriptions r ON r.id = l.prescription_id
@@ -141,6 +149,14 @@ export async function importLog(deps: ImportDeps, logId: string) {
         defaultTargetSi: ctx.defaultRateSi,
         bandFraction: ctx.band ?? 0.15,
         fallbackWidthM: ctx.rowCount * ctx.rowSpacingM,
+        planter: {
+          rowCount: ctx.rowCount,
+          rowSpacingM: ctx.rowSpacingM,
+          rowsPerSection: ctx.rowsPerSection,
+          displaySectionLimit: ctx.displaySectionLimit,
+          holesPerDisc: ctx.holesPerDisc,
+          discRpmMax: ctx.discRpmMax,
+        },
         meteredOn: ctx.meteredOn,
         unitSize: product.unitSize,
         pricePerUnit: product.pricePerUnit,

@@ -15,6 +15,13 @@ import { findingsOf } from '../../shared/audit/findings';
 import { SPEED_SOURCE_CODE, type LogColumns } from '../../shared/audit/log-columns';
 import { pointsFileToCsv } from './points-to-csv';
 import { logbookTotals, type LogbookTotals } from '../../shared/audit/logbook';
+import { replayAlarms } from '../../shared/audit/alarm-replay';
+import { controllerLag } from '../../shared/audit/controller-lag';
+import { discLimitShortfall } from '../../shared/audit/disc-limit';
+import { rowDiagnostics } from '../../shared/audit/row-diagnostics';
+import { coverageOf } from '../../shared/audit/coverage';
+import type { Diagnostics } from '../../shared/schemas/as-applied.schema';
+import { diagnosticFindings } from '../../shared/audit/diagnostic-findings';
 
 export type PipelineStage = 'reading' | 'cleaning' | 'auditing';
 
@@ -32,6 +39,15 @@ export type PipelineInput = {
   meteredOn: 'wheel' | 'radar' | 'gnss';
   unitSize: number;
   pricePerUnit: number | null;
+  /** The planter the log was planted with (DOMAIN.md §4): for the disc limit and the section advice. */
+  planter: {
+    rowCount: number;
+    rowSpacingM: number;
+    rowsPerSection: number;
+    displaySectionLimit: number;
+    holesPerDisc: number | null;
+    discRpmMax: number;
+  };
   findings: {
     rateUnit: RateUnit;
     unitSystem: UnitSystem;
@@ -99,7 +115,20 @@ export async function runPipeline(
     pricePerUnit: input.pricePerUnit,
   });
   const { trueApplied, area, ...result } = audited;
-  const findings = findingsOf(result, input.findings);
+  const diagnostics = diagnose(
+    input,
+    cleaned.columns,
+    cleaned.keep,
+    cleaned.removedBy,
+    zone,
+    area,
+    input.zones,
+  );
+  const severity = { problem: 0, notice: 1, info: 2 } as const;
+  const findings = [
+    ...findingsOf(result, input.findings),
+    ...diagnosticFindings(diagnostics, input.findings),
+  ].sort((a, b) => severity[a.severity] - severity[b.severity]);
   progress('auditing', 1);
   return {
     pointsRead: parsed.n,
@@ -109,8 +138,56 @@ export async function runPipeline(
     trueApplied,
     area,
     report: cleaned.report,
-    result: { ...result, findings },
+    result: { ...result, findings, diagnostics },
     meteredOn,
     logbook: logbookTotals(cleaned.columns, cleaned.removedBy, area, trueApplied, input.fallbackWidthM),
+  };
+}
+
+/** removedBy codes of points the planter did not plant (clean-log.ts: step index + 1). */
+const NOT_PLANTING = new Set([1, 2]);
+
+/**
+ * The deeper diagnostics (DOMAIN.md §4–§7). Alarms and coverage use the points the audit kept; the lag
+ * needs the seconds right after each target change that cleaning drops, so it sees every planting point.
+ */
+function diagnose(
+  input: PipelineInput,
+  c: LogColumns,
+  keep: Uint8Array,
+  removedBy: Uint8Array,
+  zone: Int16Array,
+  area: Float64Array,
+  zones: PipelineInput['zones'],
+): Diagnostics {
+  const planting = new Uint8Array(c.n);
+  for (let i = 0; i < c.n; i++) planting[i] = NOT_PLANTING.has(removedBy[i]) || zone[i] === -2 ? 0 : 1;
+  const s = input.cleaning;
+  const alarms = [s.alarmDelayS, s.compareAlarmDelayS].map((delayS) =>
+    replayAlarms(c, keep, zone, area, { bandFraction: input.bandFraction, delayS, passGapS: s.passGapS }),
+  );
+  const p = input.planter;
+  return {
+    alarms,
+    lag: controllerLag(c, planting, area),
+    discLimit: discLimitShortfall(
+      c,
+      keep,
+      zone,
+      area,
+      zones.map(({ zoneId, name, targetSi }) => ({ zoneId, name, targetSi })),
+      { rowSpacingM: p.rowSpacingM, holesPerDisc: p.holesPerDisc, discRpmMax: p.discRpmMax },
+      input.bandFraction,
+    ),
+    rows: rowDiagnostics(c, keep),
+    coverage: coverageOf(c, planting, input.boundary, {
+      cellSizeM: s.coverageCellM,
+      swathFallbackM: input.fallbackWidthM,
+      rowSpacingM: p.rowSpacingM,
+      rowCount: p.rowCount,
+      rowsPerSection: p.rowsPerSection,
+      displaySectionLimit: p.displaySectionLimit,
+      targetSi: c.target,
+    }),
   };
 }

@@ -145,6 +145,11 @@ export const cleaningSettingsSchema = z.object({
   plausibleRatioMin: z.number().min(0).max(1).default(0.3),
   plausibleRatioMax: z.number().min(1).max(10).default(3),
   clipToBoundary: z.boolean().default(true),
+  /** Alarm replay: the delay before an alarm sounds, and a second delay to compare (common practice: 2 s, 30 s). */
+  alarmDelayS: z.number().min(0).max(600).default(2),
+  compareAlarmDelayS: z.number().min(0).max(600).default(30),
+  /** Cell size of the coverage raster, m. */
+  coverageCellM: z.number().min(0.25).max(10).default(1),
 });
 export type CleaningSettings = z.output<typeof cleaningSettingsSchema>;
 

@@ -41,7 +41,7 @@ const FAULTS: Record<
     meteredOn: 'radar',
     note: 'radar over-reading',
   },
-  'West slope': { faults: { noiseCv: 0.05 }, meteredOn: 'gnss', note: 'noise only' },
+  'West slope': { faults: { overlapM: 1.5, noiseCv: 0.04 }, meteredOn: 'gnss', note: 'passes overlapping by 1.5 m' },
 };
 
 export async function up({ context: sequelize }: MigrationContext) {
