@@ -31,6 +31,11 @@ function duration(s: number) {
   return min < 120 ? `${min} min` : `${(s / 3600).toFixed(1)} h`;
 }
 
+/** Less area than this (a twentieth of a hectare) is the edge of a zone, not a finding. */
+const MIN_AREA_M2 = 500;
+/** Coverage is worth a sentence when over half a percent of the field was doubled or skipped. */
+const COVERAGE_SHARE = 0.005;
+
 const ROW_KIND_WORDS: Record<string, string> = {
   population: 'population',
   singulation: 'singulation',
@@ -47,10 +52,9 @@ const ROW_KIND_WORDS: Record<string, string> = {
 export function diagnosticFindings(d: Diagnostics, ctx: DiagnosticContext): Finding[] {
   const out: Finding[] = [];
   const locale = ctx.locale ?? 'en-US';
-  const what = ctx.productKind === 'seed' ? 'seed' : 'product';
 
   const [short, long] = d.alarms;
-  if (short && long) {
+  if (short && long && (short.count > 0 || long.unreportedAreaM2 >= MIN_AREA_M2)) {
     const band = `±${Math.round(short.bandFraction * 100)} %`;
     const text =
       `With a ${band} band, ${short.count} alarm${short.count === 1 ? '' : 's'} would have sounded after ${short.delayS} s; ` +
@@ -78,7 +82,7 @@ export function diagnosticFindings(d: Diagnostics, ctx: DiagnosticContext): Find
     });
   }
 
-  for (const z of d.discLimit?.zones ?? []) {
+  for (const z of (d.discLimit?.zones ?? []).filter((x) => x.areaM2 >= MIN_AREA_M2)) {
     out.push({
       kind: 'disc-limit',
       severity: 'problem',
@@ -116,14 +120,17 @@ export function diagnosticFindings(d: Diagnostics, ctx: DiagnosticContext): Find
   }
 
   const cov = d.coverage;
-  if (cov && (cov.doubleM2 > 0 || cov.skippedM2 > 0)) {
+  if (
+    cov &&
+    (cov.doubleM2 >= COVERAGE_SHARE * cov.fieldM2 || cov.skippedM2 >= COVERAGE_SHARE * cov.fieldM2)
+  ) {
     const advice = cov.sectionAdvice;
     const quantity = Math.round(cov.quantityInOverlap).toLocaleString(locale);
     out.push({
       kind: 'coverage',
       severity: cov.doubleM2 > 0.02 * cov.fieldM2 || cov.skippedM2 > 0.02 * cov.fieldM2 ? 'notice' : 'info',
       text:
-        `${area(cov.doubleM2, ctx)} planted twice (about ${quantity} ${ctx.productKind === 'seed' ? 'seeds' : 'units of product'} of ${what} doubled) ` +
+        `${area(cov.doubleM2, ctx)} planted twice${ctx.productKind === 'seed' ? ` (about ${quantity} seeds put down a second time)` : ''} ` +
         `and ${area(cov.skippedM2, ctx)} of the field skipped.` +
         (advice && advice.overlapCutM2 > 0
           ? ` Sections of ${advice.rowsPerSection} row${advice.rowsPerSection === 1 ? '' : 's'} (${advice.sections} sections` +

@@ -105,7 +105,7 @@ export function findingsOf(r: Omit<AuditResult, 'findings'>, ctx: FindingsContex
               `on average, and more than 5 % off ${where}.`,
       );
     }
-  } else if (sp && sp.meteredOn === 'gnss') {
+  } else if (sp && sp.meteredOn === 'gnss' && Math.abs(sp.meanSlip) >= 0.005) {
     add(
       'speed-source',
       'info',

@@ -2,6 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { QueryTypes } from 'sequelize';
 import { startTestApp, signIn, type TestApp } from '../helpers/app';
 import { DEMO_USERS, DEMO_WORKSPACE } from '../../server/db/seeders/20261202-0001-demo';
+import type { Diagnostics } from '../../shared/schemas/as-applied.schema';
 
 // `npm test` seeds the demo into its throwaway database, as `npm start` does.
 let t: TestApp;
@@ -84,9 +85,12 @@ describe('the demo', () => {
     }[];
     expect(new Set(logs.map((l) => l.fieldName)).size).toBe(6);
     const findings: Record<string, { kind: string; text: string }[]> = {};
+    const diagnostics: Record<string, Diagnostics> = {};
     for (const l of logs) {
       expect(l.status).toBe('ready');
-      findings[l.fieldName] = (await caller.get(`/api/logs/${l.id}/audit`)).body.result.findings;
+      const result = (await caller.get(`/api/logs/${l.id}/audit`)).body.result;
+      findings[l.fieldName] = result.findings;
+      diagnostics[l.fieldName] = result.diagnostics;
     }
     // server/db/seeders/20261202-0004-demo-logs.ts: 8 % wheel slip → 1 / 0.92 − 1 = 8.7 % hidden (DOMAIN.md §5).
     const nq = findings['North quarter'][0];
@@ -97,8 +101,26 @@ describe('the demo', () => {
     // The disc at its top speed in the highest-rate zone: about 8 % short there.
     const short = findings['Schoolhouse forty'].find((f) => f.kind === 'zone-off');
     expect(short?.text).toMatch(/Better ground got [78]\.\d % less than prescribed/);
-    // A field with noise only: on target.
-    expect(findings['West slope'].some((f) => /on target/.test(f.text))).toBe(true);
+    expect(findings['Schoolhouse forty'].find((f) => f.kind === 'disc-limit')?.text).toMatch(
+      /^In Better ground the seed disc was at its top speed/,
+    );
+    // Controller lag of 3 s at the planned 5.5 mph: 2.4587 m/s × 3 s = 7.38 m = 24 ft (DOMAIN.md §6, derived).
+    expect(findings['Creek bend'].find((f) => f.kind === 'lag')?.text).toMatch(
+      /about 3\.0 s to follow a change of rate .*about 24 ft/,
+    );
+    // Row 7 at 0.9 × the others (the demo's injected fault).
+    expect(findings['Pond field'].find((f) => f.kind === 'row')?.text).toMatch(
+      /^Row 7 stands apart in population: 10\.0 % below/,
+    );
+    // Passes 1.5 m closer than the swath: about 1.5 / (swath − 1.5) of the field doubled.
+    expect(findings['West slope'].find((f) => f.kind === 'coverage')?.text).toMatch(
+      /planted twice .* Sections of/,
+    );
+    // An erratic rate: more alarms after 2 s than after 30 s, and out-of-band time no 30 s alarm reports.
+    const [quick, slow] = diagnostics['West slope'].alarms;
+    expect(quick.count).toBeGreaterThan(slow.count);
+    expect(slow.unreportedTimeS).toBeGreaterThan(quick.unreportedTimeS);
+    expect(findings['West slope'].some((f) => f.kind === 'alarm')).toBe(true);
   });
 
   it('is seeded once: running the seeders again adds nothing', async () => {
