@@ -152,10 +152,15 @@ type Api = {
 
 function api(base: string, cookie: string): Api {
   const call = async <T>(method: string, url: string, body?: unknown): Promise<T> => {
-    const res = await fetch(`${base}${url}`, {
+    const init = {
       method,
       headers: { cookie, 'x-sowright-request': '1', ...(body ? { 'content-type': 'application/json' } : {}) },
       body: body ? JSON.stringify(body) : undefined,
+    };
+    // A GET on a kept-alive connection the server closed while idle is tried once more.
+    const res = await fetch(`${base}${url}`, init).catch((err: Error) => {
+      if (method !== 'GET') throw err;
+      return fetch(`${base}${url}`, init);
     });
     const text = await res.text();
     if (!res.ok) throw new Error(`${method} ${url} answered ${res.status}: ${text.slice(0, 400)}`);
@@ -632,13 +637,15 @@ async function tiles(base: string, cookie: string, logId: string, boundary: Mult
   const lats = ring.map((p) => p[1]);
   const [w, e, s, n] = [Math.min(...lons), Math.max(...lons), Math.min(...lats), Math.max(...lats)];
   const random = seededRandom(1212);
-  const get = async (z: number, x: number, y: number) => {
+  const once = async (z: number, x: number, y: number) => {
     const t0 = performance.now();
     const res = await fetch(`${base}/api/logs/${logId}/tiles/${z}/${x}/${y}`, { headers: { cookie } });
     const body = new Uint8Array(await res.arrayBuffer());
     if (!res.ok) throw new Error(`tile ${z}/${x}/${y} answered ${res.status}`);
     return { ms: performance.now() - t0, bytes: body.length };
   };
+  // A kept-alive connection the server closed while idle fails once; the retry is timed on its own.
+  const get = (z: number, x: number, y: number) => once(z, x, y).catch(() => once(z, x, y));
   const c = tileOf((w + e) / 2, (s + n) / 2, 15);
   await get(15, c.x, c.y); // warm-up, not counted
   const perZoom: { z: number; distinct: number; p50: number; p95: number; maxMs: number; maxKb: number }[] =
