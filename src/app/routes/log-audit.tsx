@@ -33,11 +33,11 @@ function AuditPage({ log }: { log: Log }) {
   const audit = useAudit(log.id, ready);
   const rx = usePrescription(log.prescriptionId);
 
-  // Read anew (after "Adjust cleaning"): the audit changed too.
+  // Read anew (after "Adjust cleaning"): the audit changed too. Its old figures are dropped, not shown while
+  // the new ones load (the server changes the band at once, the figures only when the reading is done).
   const lastStatus = useRef(log.status);
   useEffect(() => {
-    if (lastStatus.current !== 'ready' && ready)
-      void qc.invalidateQueries({ queryKey: auditKeys.detail(log.id) });
+    if (lastStatus.current !== 'ready' && ready) void qc.resetQueries({ queryKey: auditKeys.detail(log.id) });
     lastStatus.current = log.status;
   }, [ready, log.status, log.id, qc]);
 

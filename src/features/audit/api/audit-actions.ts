@@ -31,9 +31,10 @@ export function useRecleanLog(logId: string) {
   return useMutation({
     mutationFn: recleanLog,
     onSuccess: async (log) => {
+      // The audit is worked out anew: nothing of the old one is kept to show meanwhile.
+      qc.removeQueries({ queryKey: auditKeys.detail(logId) });
       qc.setQueryData(logKeys.detail(logId), log);
       await qc.invalidateQueries({ queryKey: logKeys.lists() });
-      await qc.invalidateQueries({ queryKey: auditKeys.detail(logId) });
     },
   });
 }
