@@ -76,7 +76,7 @@ async function contextOf(sequelize: Sequelize, logId: string): Promise<LogContex
             l.metered_on AS "meteredOn", lf.sha256, lf.original_name AS "fileName", lf.format,
             r.id AS "prescriptionId", r.default_rate_si AS "defaultRateSi", r.rate_unit AS "rateUnit",
             pl.row_count AS "rowCount", pl.row_spacing_m AS "rowSpacingM", r.product_snapshot AS "productSnapshot",
-            a.band_fraction AS band, u.unit_system AS "unitSystem", l.created_by AS "createdBy",
+            l.band_fraction AS band, u.unit_system AS "unitSystem", l.created_by AS "createdBy",
             l.planter_id AS "planterId", l.crop_season_id AS "seasonId",
             pl.rows_per_section AS "rowsPerSection", pl.display_section_limit AS "displaySectionLimit",
             pl.disc_rpm_max AS "discRpmMax",
@@ -86,7 +86,6 @@ async function contextOf(sequelize: Sequelize, logId: string): Promise<LogContex
        JOIN log_files lf ON lf.id = l.file_id
        JOIN prescriptions r ON r.id = l.prescription_id
        JOIN planters pl ON pl.id = l.planter_id
-       LEFT JOIN audits a ON a.log_id = l.id
        LEFT JOIN users u ON u.id = l.created_by
       WHERE l.id = :logId`,
     { replacements: { logId }, type: QueryTypes.SELECT },
@@ -103,10 +102,12 @@ export async function importLog(deps: ImportDeps, logId: string) {
   const { sequelize } = deps;
   const ctx = await contextOf(sequelize, logId);
   if (!ctx) return;
+  let pending: Promise<void> = Promise.resolve();
   const setStatus = async (status: string, progress: number) => {
     await sequelize.query(
       `UPDATE as_applied_logs SET status = :status, progress = :progress,
-              started_at = COALESCE(started_at, now()), updated_at = now() WHERE id = :logId`,
+              started_at = COALESCE(started_at, now()), updated_at = now()
+        WHERE id = :logId AND status NOT IN ('ready', 'failed')`,
       { replacements: { status, progress, logId } },
     );
   };
@@ -136,7 +137,6 @@ export async function importLog(deps: ImportDeps, logId: string) {
     };
     const bytes = new Uint8Array(await deps.files.read(ctx.sha256));
     let lastWrite = 0;
-    let pending: Promise<void> = Promise.resolve();
     const output = await runPipelineInWorker(
       {
         bytes,
@@ -182,6 +182,8 @@ export async function importLog(deps: ImportDeps, logId: string) {
       .onReady?.(logId)
       .catch((err: Error) => process.stderr.write(`[logs] ready mail: ${err.message}\n`));
   } catch (err) {
+    // Progress writes still queued must land before `failed`, never after it.
+    await pending.catch(() => {});
     // A reading error names its line; anything else (the database, the disk) stored nothing and says so.
     const line = err instanceof LogReadError ? err.line : null;
     const message =

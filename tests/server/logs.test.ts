@@ -95,6 +95,41 @@ describe('importing a log', () => {
     expect(await pointCount(log.id)).toBe(0);
   });
 
+  it('reads a failed file again when it is mapped anew: same log, no second one', async () => {
+    const { bytes } = logCsvFor(rx, { noiseCv: 0.03 }, { seed: 35 });
+    const mapping = mappingOf(bytes);
+    const wrong = {
+      ...mapping,
+      fields: {
+        ...mapping.fields,
+        time: { ...mapping.fields.time!, unit: mapping.fields.time!.unit === 'iso' ? 'epoch-ms' : 'iso' },
+      },
+    };
+    const p = await preview(w.callers.farmer, rx.id, bytes);
+    const first = await w.callers.farmer.post('/api/logs', {
+      fileId: p.body.fileId,
+      prescriptionId: rx.id,
+      planterId: rx.planter!.id,
+      mapping: wrong,
+      meteredOn: 'gnss',
+    });
+    expect(first.status).toBe(201);
+    const failed = await settled(w.callers.farmer, first.body.id);
+    expect(failed.status).toBe('failed');
+    const again = await w.callers.farmer.post('/api/logs', {
+      fileId: p.body.fileId,
+      prescriptionId: rx.id,
+      planterId: rx.planter!.id,
+      mapping,
+      meteredOn: 'gnss',
+    });
+    expect(again.status).toBe(200);
+    expect(again.body.id).toBe(first.body.id);
+    const fixed = await settled(w.callers.farmer, first.body.id);
+    expect(fixed.status, JSON.stringify(fixed.error)).toBe('ready');
+    expect(await pointCount(fixed.id)).toBe(fixed.pointsRead);
+  });
+
   it('stores nothing half when the database connection dies mid-storage, and a retry stores exactly one copy', async () => {
     const { bytes } = logCsvFor(rx, { noiseCv: 0.03 }, { seed: 44, speedMps: 0.95 });
     const { log } = await uploadLog(w.callers.agronomist, rx, bytes);

@@ -268,36 +268,45 @@ export async function createLog(actor: Actor, input: z.output<typeof createLogSc
       { path: ['planterId'], message: 'Not a planter of this grower' },
     ]);
 
-  const [made] = await db().query<{ id: string; created: boolean }>(
-    `INSERT INTO as_applied_logs (workspace_id, grower_id, field_id, crop_season_id, planter_id, prescription_id,
+  const values = {
+    ws: actor.workspaceId,
+    growerId: rx.growerId,
+    fieldId: rx.fieldId,
+    seasonId: rx.cropSeasonId,
+    planterId: input.planterId,
+    prescriptionId: rx.id,
+    fileId: file.id,
+    mapping: JSON.stringify(input.mapping),
+    meteredOn: input.meteredOn,
+    cleaning: JSON.stringify(cleaningSettingsSchema.parse({})),
+    userId: actor.userId,
+  };
+  // A new file makes a new log. The same file again answers the log it made — except a log that failed,
+  // which takes the new mapping and is read again (the person fixed what broke).
+  const [made] = await db().query<{ id: string; created: boolean; requeued: boolean }>(
+    `WITH before AS (SELECT status FROM as_applied_logs WHERE workspace_id = :ws AND file_id = :fileId)
+     INSERT INTO as_applied_logs (workspace_id, grower_id, field_id, crop_season_id, planter_id, prescription_id,
                                   file_id, mapping, metered_on, cleaning, created_by)
      VALUES (:ws, :growerId, :fieldId, :seasonId, :planterId, :prescriptionId, :fileId, :mapping, :meteredOn,
              :cleaning, :userId)
-     ON CONFLICT (workspace_id, file_id) DO UPDATE SET updated_at = as_applied_logs.updated_at
-     RETURNING id, (xmax = 0) AS created`,
-    {
-      replacements: {
-        ws: actor.workspaceId,
-        growerId: rx.growerId,
-        fieldId: rx.fieldId,
-        seasonId: rx.cropSeasonId,
-        planterId: input.planterId,
-        prescriptionId: rx.id,
-        fileId: file.id,
-        mapping: JSON.stringify(input.mapping),
-        meteredOn: input.meteredOn,
-        cleaning: JSON.stringify(cleaningSettingsSchema.parse({})),
-        userId: actor.userId,
-      },
-      type: QueryTypes.SELECT,
-    },
+     ON CONFLICT (workspace_id, file_id) DO UPDATE SET
+       mapping = CASE WHEN as_applied_logs.status = 'failed' THEN EXCLUDED.mapping ELSE as_applied_logs.mapping END,
+       metered_on = CASE WHEN as_applied_logs.status = 'failed' THEN EXCLUDED.metered_on ELSE as_applied_logs.metered_on END,
+       planter_id = CASE WHEN as_applied_logs.status = 'failed' THEN EXCLUDED.planter_id ELSE as_applied_logs.planter_id END,
+       prescription_id = CASE WHEN as_applied_logs.status = 'failed' THEN EXCLUDED.prescription_id ELSE as_applied_logs.prescription_id END,
+       version = as_applied_logs.version + CASE WHEN as_applied_logs.status = 'failed' THEN 1 ELSE 0 END,
+       error = CASE WHEN as_applied_logs.status = 'failed' THEN NULL ELSE as_applied_logs.error END,
+       status = CASE WHEN as_applied_logs.status = 'failed' THEN 'queued' ELSE as_applied_logs.status END,
+       updated_at = now()
+     RETURNING id, (xmax = 0) AS created, COALESCE((SELECT status FROM before) = 'failed', false) AS requeued`,
+    { replacements: values, type: QueryTypes.SELECT },
   );
   await db().query(
     `INSERT INTO planter_log_mappings (planter_id, mapping) VALUES (:planterId, :mapping)
      ON CONFLICT (planter_id) DO UPDATE SET mapping = EXCLUDED.mapping, updated_at = now()`,
     { replacements: { planterId: input.planterId, mapping: JSON.stringify(input.mapping) } },
   );
-  if (made.created) await enqueue(made.id);
+  if (made.created || made.requeued) await enqueue(made.id);
   return { log: await getLog(actor, made.id), created: made.created };
 }
 
@@ -325,19 +334,11 @@ export async function recleanLog(
   if (audit?.status === 'signed-off') {
     throw new ConflictError('The audit is signed off and frozen: its cleaning cannot change', 'frozen');
   }
+  // The band changes on the audit together with its figures, when the import has run again.
   await db().query(
-    `UPDATE as_applied_logs SET cleaning = :cleaning, status = 'queued', progress = 0, error = NULL,
-            version = version + 1, updated_at = now() WHERE id = :id`,
-    { replacements: { id, cleaning: JSON.stringify(input.cleaning) } },
-  );
-  await db().query('UPDATE audits SET band_fraction = :band, updated_at = now() WHERE log_id = :id', {
-    replacements: { id, band: input.bandFraction },
-  });
-  await db().query(
-    `INSERT INTO audits (workspace_id, grower_id, log_id, band_fraction, result)
-     SELECT workspace_id, grower_id, id, :band, '{}'::jsonb FROM as_applied_logs WHERE id = :id
-     ON CONFLICT (log_id) DO NOTHING`,
-    { replacements: { id, band: input.bandFraction } },
+    `UPDATE as_applied_logs SET cleaning = :cleaning, band_fraction = :band, status = 'queued', progress = 0,
+            error = NULL, version = version + 1, updated_at = now() WHERE id = :id`,
+    { replacements: { id, cleaning: JSON.stringify(input.cleaning), band: input.bandFraction } },
   );
   await enqueue(id);
   return getLog(actor, id);
