@@ -12,6 +12,7 @@ import { FileReadError } from '../imports/import-errors';
 import { importErrors } from '../imports/import.router';
 import { unitSystemOf } from '../prescriptions/prescription.dto';
 import { safeFileName } from '../../lib/shapefile-write';
+import { sendFile } from '../../lib/send-file';
 import * as logs from './log.service';
 import * as audits from './audit.service';
 import { logTile } from './log-tiles';
@@ -137,13 +138,11 @@ export function logRouter(deps: { files: FileStore; enqueue: logs.Enqueue; maile
     handle({ params: idParamsSchema }, async ({ req, res, params }) => {
       const actor = actorOf(req);
       const log = await logs.getLog(actor, params.id);
-      const csv = await audits.auditCsv(actor, params.id, await unitSystemOf(actor));
-      res.set('Content-Type', 'text/csv; charset=utf-8');
-      res.set(
-        'Content-Disposition',
-        `attachment; filename="${safeFileName([log.fieldName, log.seasonLabel, 'audit'])}.csv"`,
-      );
-      res.send(`\uFEFF${csv}\r\n`);
+      sendFile(res, {
+        body: await audits.auditCsv(actor, params.id, await unitSystemOf(actor)),
+        contentType: 'text/csv; charset=utf-8',
+        fileName: `${safeFileName([log.fieldName, log.seasonLabel, 'audit'])}.csv`,
+      });
     }),
   );
   router.post(

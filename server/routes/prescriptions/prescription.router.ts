@@ -14,6 +14,7 @@ import { actorOf, handle } from '../../middleware/handle';
 import { requireRole, requireSignIn } from '../../middleware/authenticate';
 import type { Mailer } from '../../mail/mailer';
 import { safeFileName } from '../../lib/shapefile-write';
+import { sendFile } from '../../lib/send-file';
 import * as rx from './prescription.service';
 import { exportPrescription } from './prescription.export';
 import { approvalNotifier } from './prescription.mail';
@@ -45,11 +46,7 @@ export function prescriptionRouter({ mailer, appUrl }: { mailer: Mailer; appUrl:
     handle(
       { params: idParamsSchema, query: prescriptionExportQuerySchema },
       async ({ req, res, params, query }) => {
-        const file = await exportPrescription(actorOf(req), params.id, query);
-        res.set('Content-Type', file.contentType);
-        res.set('Content-Disposition', `attachment; filename="${file.fileName}"`);
-        res.set('Cache-Control', 'no-store');
-        res.send(file.body);
+        sendFile(res, await exportPrescription(actorOf(req), params.id, query));
       },
     ),
   );
@@ -112,14 +109,11 @@ export function seedOrderRouter() {
       const actor = actorOf(req);
       const order = await seedOrder(actor, query);
       if (query.format === 'json') return order;
-      const csv = seedOrderCsv(order, await unitSystemOf(actor));
-      res.set('Content-Type', 'text/csv; charset=utf-8');
-      res.set(
-        'Content-Disposition',
-        `attachment; filename="${safeFileName([order.growerName, String(order.year), 'order'])}.csv"`,
-      );
-      res.set('Cache-Control', 'no-store');
-      res.send(`\uFEFF${csv}\r\n`);
+      sendFile(res, {
+        body: seedOrderCsv(order, await unitSystemOf(actor)),
+        contentType: 'text/csv; charset=utf-8',
+        fileName: `${safeFileName([order.growerName, String(order.year), 'order'])}.csv`,
+      });
       return undefined;
     }),
   );

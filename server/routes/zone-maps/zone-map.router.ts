@@ -23,6 +23,7 @@ import * as maps from './zone-map.service';
 import { exportZoneMap } from './zone-map.export';
 import * as sources from './zone-map-sources.service';
 import { importErrors } from '../imports/import.router';
+import { sendFile } from '../../lib/send-file';
 
 const zoneParamsSchema = z.object({ id: idSchema, zoneId: idSchema });
 
@@ -48,11 +49,7 @@ export function zoneMapRouter() {
     handle(
       { params: idParamsSchema, query: zoneMapExportQuerySchema },
       async ({ req, res, params, query }) => {
-        const file = await exportZoneMap(actorOf(req), params.id, query.format);
-        res.set('Content-Type', file.contentType);
-        res.set('Content-Disposition', `attachment; filename="${file.fileName}"`);
-        res.set('Cache-Control', 'no-store');
-        res.send(file.body);
+        sendFile(res, await exportZoneMap(actorOf(req), params.id, query.format));
       },
     ),
   );
