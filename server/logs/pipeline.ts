@@ -48,6 +48,8 @@ export type PipelineInput = {
     holesPerDisc: number | null;
     discRpmMax: number;
   };
+  /** Run the diagnostics (alarm replay, lag, disc limit, rows, coverage); the benchmark times them apart. */
+  diagnose?: boolean;
   findings: {
     rateUnit: RateUnit;
     unitSystem: UnitSystem;
@@ -127,7 +129,7 @@ export async function runPipeline(
   const severity = { problem: 0, notice: 1, info: 2 } as const;
   const findings = [
     ...findingsOf(result, input.findings),
-    ...diagnosticFindings(diagnostics, input.findings),
+    ...(diagnostics ? diagnosticFindings(diagnostics, input.findings) : []),
   ].sort((a, b) => severity[a.severity] - severity[b.severity]);
   progress('auditing', 1);
   return {
