@@ -7,6 +7,8 @@ import { QueryState } from '@/components/ui/query-state';
 import { Section } from '@/components/ui/section';
 import { planterQueryOptions, usePlanter } from '@/features/register/api/get-planter';
 import { SectionLine } from '@/features/register/components/section-line';
+import { logbookQueryOptions } from '@/features/logbook/api/get-logbook';
+import { PlanterLogbook } from '@/features/logbook/components/planter-logbook';
 import { RecordHeader } from '@/features/register/components/record-header';
 import { formatNumber, formatRowSpacing, formatSpeed } from '@/lib/format';
 import { canEditPlanter } from '@/lib/permissions';
@@ -16,6 +18,7 @@ export const loader =
   (qc: QueryClient): LoaderFunction =>
   ({ params }) => {
     void qc.prefetchQuery(planterQueryOptions(params.id ?? ''));
+    void qc.prefetchQuery(logbookQueryOptions(params.id ?? ''));
     return null;
   };
 
@@ -108,6 +111,9 @@ function PlanterPage({ planter: p }: { planter: Planter }) {
             measures true speed over the ground.
           </p>
         ) : null}
+      </Section>
+      <Section title="Logbook">
+        <PlanterLogbook planterId={p.id} system={system} />
       </Section>
       {p.notes ? (
         <Section title="Notes">

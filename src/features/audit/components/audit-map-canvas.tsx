@@ -1,8 +1,10 @@
 import { useEffect, useRef, useState, type ReactNode } from 'react';
 import maplibregl, {
   type ExpressionSpecification,
+  type LayerSpecification,
   type LngLatBoundsLike,
   type Map as MaplibreMap,
+  type SourceSpecification,
   type StyleSpecification,
   type VectorTileSource,
 } from 'maplibre-gl';
@@ -14,6 +16,19 @@ import { INK } from '@/components/map/map-style';
 import { NO_VALUE, type Stop } from './map-colours';
 
 export type PointValues = Record<string, number | undefined>;
+
+/**
+ * What a diagnostic draws over the points (alarm starts, the coverage raster): its sources and layers, the
+ * marker pictures its symbol layers name, and which of its layers are hidden now.
+ */
+export type MapOverlay = {
+  sources: Record<string, SourceSpecification>;
+  layers: LayerSpecification[];
+  images?: Record<string, () => ImageData>;
+  hidden?: string[];
+  /** Leave the log's points out (the overlay says it all). */
+  hidePoints?: boolean;
+};
 
 export type AuditMapCanvasProps = {
   label: string;
@@ -32,6 +47,7 @@ export type AuditMapCanvasProps = {
   describePoint: (values: PointValues) => ReactNode;
   legend: ReactNode;
   className?: string;
+  overlay?: MapOverlay;
 };
 
 const fc = (geoms: MultiPolygon[]): FeatureCollection => ({
@@ -108,6 +124,7 @@ export default function AuditMapCanvas(props: AuditMapCanvasProps) {
         boundary: { type: 'geojson', data: fc([p.boundary]) },
         zones: { type: 'geojson', data: fc(p.zones.map((z) => z.geometry)) },
         log: { type: 'vector', tiles: [tileUrl(p.logId, p.tileVersion)], minzoom: 0, maxzoom: 18 },
+        ...p.overlay?.sources,
       },
       layers: [
         { id: 'paper', type: 'background', paint: { 'background-color': INK.paper } },
@@ -122,11 +139,13 @@ export default function AuditMapCanvas(props: AuditMapCanvasProps) {
           type: 'circle',
           source: 'log',
           'source-layer': 'points',
+          layout: { visibility: p.overlay?.hidePoints ? 'none' : 'visible' },
           paint: {
             'circle-color': colourOf(p.property, p.stops),
             'circle-radius': radiusBySwath(p.swathM, (bounds(p.boundary) as [number, number][])[0][1]),
           },
         },
+        ...(p.overlay?.layers.filter((l) => l.type !== 'symbol' && l.type !== 'circle') ?? []),
         {
           id: 'zones-line',
           type: 'line',
@@ -139,6 +158,8 @@ export default function AuditMapCanvas(props: AuditMapCanvasProps) {
           source: 'boundary',
           paint: { 'line-color': INK.ink, 'line-width': 2.25 },
         },
+        // Markers above the outlines.
+        ...(p.overlay?.layers.filter((l) => l.type === 'symbol' || l.type === 'circle') ?? []),
       ],
     };
     const map = new maplibregl.Map({
@@ -158,6 +179,10 @@ export default function AuditMapCanvas(props: AuditMapCanvasProps) {
     mapRef.current = map;
     map.addControl(new maplibregl.NavigationControl({ showCompass: false }), 'top-right');
     map.addControl(new maplibregl.ScaleControl({ unit: p.unitSystem, maxWidth: 120 }), 'bottom-left');
+    map.on('styleimagemissing', (e: { id: string }) => {
+      const make = latest.current.overlay?.images?.[e.id];
+      if (make && !map.hasImage(e.id)) map.addImage(e.id, make(), { pixelRatio: 2 });
+    });
     map.on('load', () => setReady(true));
     map.on('idle', () => {
       el.dataset.ready = 'true';
@@ -190,6 +215,15 @@ export default function AuditMapCanvas(props: AuditMapCanvasProps) {
     if (!ready || !map) return;
     map.setPaintProperty('points', 'circle-color', colourOf(property, stops));
   }, [ready, property, stops]);
+
+  const hidden = props.overlay?.hidden?.join('\n') ?? '';
+  useEffect(() => {
+    const map = mapRef.current;
+    if (!ready || !map) return;
+    const off = new Set(hidden.split('\n'));
+    for (const l of latest.current.overlay?.layers ?? [])
+      map.setLayoutProperty(l.id, 'visibility', off.has(l.id) ? 'none' : 'visible');
+  }, [ready, hidden]);
 
   useEffect(() => {
     const map = mapRef.current;

@@ -189,7 +189,15 @@ export function AuditMaps({
 }
 
 /** One map with its title and its control (not printed) above it. */
-function MapPanel({ title, control, map }: { title: string; control: ReactNode; map: AuditMapCanvasProps }) {
+export function MapPanel({
+  title,
+  control,
+  map,
+}: {
+  title: string;
+  control: ReactNode;
+  map: AuditMapCanvasProps;
+}) {
   return (
     <div className="min-w-0 space-y-2">
       <div className="flex min-h-9 flex-wrap items-center justify-between gap-2">

@@ -7,6 +7,7 @@ import { Section } from '@/components/ui/section';
 import { AuditMaps } from './audit-maps';
 import { CleaningPanel } from './cleaning-panel';
 import { CommentsPanel } from './comments-panel';
+import { DiagnosticsSection } from './diagnostics/diagnostics-section';
 import { FindingsList } from './findings-list';
 import { RatioHistogram } from './ratio-histogram';
 import { SignedOffBanner } from './sign-off';
@@ -18,7 +19,7 @@ import './audit-print.css';
 const CLEANERS: Role[] = ['admin', 'agronomist', 'farmer'];
 
 /**
- * The audit of one log: findings first, then the maps, the charts, the zone table, what cleaning removed,
+ * The audit of one log: findings first, then the maps, why it happened (the diagnostics), the charts, the zone table, what cleaning removed,
  * comments and the caution. Prints as a report (audit-print.css).
  */
 export function AuditReport({
@@ -56,6 +57,7 @@ export function AuditReport({
       <Section title="Maps" className="audit-maps">
         <AuditMaps log={log} audit={audit} prescription={rx} system={system} />
       </Section>
+      <DiagnosticsSection log={log} audit={audit} prescription={rx} system={system} />
       <div className="grid gap-x-6 gap-y-7 xl:grid-cols-2">
         <Section title="Applied ÷ target" className="">
           <RatioHistogram bins={r.histogram} bandFraction={audit.bandFraction} />

@@ -1,6 +1,6 @@
 import { useState } from 'react';
 import { cleaningSettingsSchema, type CleaningSettings, type Log } from '@shared/schemas/as-applied.schema';
-import { speedFromDisplay, speedToDisplay, speedUnitLabel, type UnitSystem } from '@shared/units';
+import { M_PER_FT, speedFromDisplay, speedToDisplay, speedUnitLabel, type UnitSystem } from '@shared/units';
 import { ProblemList } from '@/components/form/problem-list';
 import { Button } from '@/components/ui/button';
 import { FormField } from '@/components/ui/form-field';
@@ -62,6 +62,28 @@ function settingDefs(system: UnitSystem): {
     },
     { key: 'plausibleRatioMin', label: 'Lowest plausible applied', unit: '% of target', ...pct },
     { key: 'plausibleRatioMax', label: 'Highest plausible applied', unit: '% of target', ...pct },
+    // The diagnostics ("Why it happened"): the alarm replay's two delays and the coverage raster's cell.
+    {
+      key: 'alarmDelayS',
+      label: 'Alarm after out of the band for',
+      unit: 's',
+      toShown: same,
+      fromShown: same,
+    },
+    {
+      key: 'compareAlarmDelayS',
+      label: 'Compared with an alarm after',
+      unit: 's',
+      toShown: same,
+      fromShown: same,
+    },
+    {
+      key: 'coverageCellM',
+      label: 'Coverage map cell',
+      unit: system === 'imperial' ? 'ft' : 'm',
+      toShown: (v: number) => (system === 'imperial' ? v / M_PER_FT : v),
+      fromShown: (v: number) => (system === 'imperial' ? v * M_PER_FT : v),
+    },
   ];
 }
 
