@@ -17,7 +17,10 @@ const SHORT_LAYER = 'alarms-short';
 const LONG_LAYER = 'alarms-long';
 const DIAMOND = 'alarm-diamond';
 
-/** The long delay's marker: an orange diamond with a dark edge (the short delay's is a blue dot). */
+/**
+ * The long delay's marker: an orange diamond with a dark edge. The short delay's is a dark dot with a white
+ * edge: neither is a colour of the error ramp (red–blue) under them.
+ */
 function diamondImage(): ImageData {
   const s = 30;
   const canvas = document.createElement('canvas');
@@ -40,7 +43,7 @@ function diamondImage(): ImageData {
 
 export const DotMark = () => (
   <svg viewBox="0 0 12 12" className="inline-block size-3" aria-hidden>
-    <circle cx="6" cy="6" r="4.5" fill={MARK.blue} stroke="#fff" strokeWidth="1" />
+    <circle cx="6" cy="6" r="4.5" fill={MARK.ink} stroke="#fff" strokeWidth="1" />
   </svg>
 );
 export const DiamondMark = () => (
@@ -91,8 +94,8 @@ export function AlarmPanel({
           type: 'circle',
           source: 'alarms-short',
           paint: {
-            'circle-color': MARK.blue,
-            'circle-radius': 4.5,
+            'circle-color': MARK.ink,
+            'circle-radius': 3.5,
             'circle-stroke-color': '#ffffff',
             'circle-stroke-width': 1,
           },

@@ -13,6 +13,9 @@ import { diagnosticMapBase } from './map-base';
 import { DiagnosticPanel } from './panel';
 import { formatLength, formatQuantity, MARK } from './units';
 
+/** Under half a percent of the field skipped or doubled is not worth a word (diagnostic-findings.ts uses the same). */
+const SMALL_SHARE = 0.005;
+
 /** Skipped ground in vermillion, ground planted twice or more in blue (Okabe & Ito); once: no colour. */
 export const COVERAGE_COLOURS = { skipped: MARK.vermillion, double: MARK.blue };
 
@@ -71,16 +74,17 @@ export function CoveragePanel({
   const share = (m2: number) => (c.fieldM2 > 0 ? ` (${formatNumber((100 * m2) / c.fieldM2, 1)} %)` : '');
   const a = c.sectionAdvice;
   const verdict =
-    c.doubleM2 <= 0 && c.skippedM2 <= 0
-      ? 'Every part of the field was planted once.'
+    c.doubleM2 < SMALL_SHARE * c.fieldM2 && c.skippedM2 < SMALL_SHARE * c.fieldM2
+      ? `Nearly all of the field was planted once: ${formatArea(c.skippedM2, system)} skipped and ${formatArea(c.doubleM2, system)} planted twice.`
       : `${formatArea(c.doubleM2, system)} of the field was planted twice or more and ${formatArea(c.skippedM2, system)} was skipped.`;
-  const advice = !a
-    ? null
-    : a.overlapCutM2 > 0
-      ? `Sections of ${a.rowsPerSection} row${a.rowsPerSection === 1 ? '' : 's'} (${a.sections} sections, ${
-          a.withinDisplayLimit ? 'within what the display controls' : 'more than the display controls'
-        }) would have cut the overlap by ${formatArea(a.overlapCutM2, system)}.`
-      : 'Narrower sections would not have cut the overlap here.';
+  const advice =
+    !a || c.doubleM2 <= 0
+      ? null
+      : a.overlapCutM2 > 0
+        ? `Sections of ${a.rowsPerSection} row${a.rowsPerSection === 1 ? '' : 's'} (${a.sections} sections, ${
+            a.withinDisplayLimit ? 'within what the display controls' : 'more than the display controls'
+          }) would have cut the overlap by ${formatArea(a.overlapCutM2, system)}.`
+        : 'Narrower sections would not have cut the overlap here.';
   return (
     <DiagnosticPanel title="Skipped and double-planted ground" verdict={verdict}>
       <Facts

@@ -75,7 +75,7 @@ export function LagPanel({
     late == null
       ? 'No change of target rate was long and clear enough to time the controller.'
       : late < NOTICEABLE_S
-        ? `The controller followed rate changes within ${formatNumber(Math.max(late, 0), 1)} s: nothing worth correcting.`
+        ? 'The controller followed rate changes within a second: nothing worth correcting.'
         : `The controller took about ${formatNumber(late, 1)} s to follow a change of rate, so about ${formatLength(lag.metresAtOldRate ?? 0, system)} past each zone edge went in at the old rate.`;
   return (
     <DiagnosticPanel title="Controller lag" verdict={verdict}>

@@ -40,9 +40,14 @@ const PAD = { left: 12, right: 12, top: 22, bottom: 22 };
 function RowStrip({ d, show, unit }: { d: RowDiagnostic; show: (v: number) => string; unit: string }) {
   const rows = [...d.rows].sort((a, b) => a.row - b.row);
   const limit = d.threshold * 1.4826 * d.mad;
-  const spread = Math.max(limit * 1.25, ...rows.map((r) => Math.abs(r.mean - d.median))) || 1;
+  // From the lowest to the highest of the rows and the strip, with a little room for the name of a row.
+  const means = rows.map((r) => r.mean);
+  let lo = Math.min(d.median - limit, ...means);
+  let hi = Math.max(d.median + limit, ...means);
+  if (hi - lo <= 0) [lo, hi] = [d.median - 1, d.median + 1];
+  const room = (hi - lo) * 0.08;
   const x = (i: number) => PAD.left + ((i + 0.5) / rows.length) * (W - PAD.left - PAD.right);
-  const y = (v: number) => PAD.top + (0.5 - (v - d.median) / (2 * spread)) * (H - PAD.top - PAD.bottom);
+  const y = (v: number) => PAD.top + ((hi + room - v) / (hi - lo + 2 * room)) * (H - PAD.top - PAD.bottom);
   const flagged = rows.filter((r) => r.flagged);
   return (
     <ChartFigure
@@ -93,16 +98,23 @@ function RowStrip({ d, show, unit }: { d: RowDiagnostic; show: (v: number) => st
           )}
           <title>{`Row ${r.row}: ${show(r.mean)} ${unit}${r.flagged ? ' (apart from the others)' : ''}`}</title>
           {r.flagged ? (
+            // Named beside its mark, on the side with more room.
             <text
-              x={x(i)}
-              y={r.mean < d.median ? y(r.mean) + 17 : y(r.mean) - 9}
-              textAnchor="middle"
+              x={i < rows.length * 0.7 ? x(i) + 9 : x(i) - 9}
+              y={y(r.mean) + 4}
+              textAnchor={i < rows.length * 0.7 ? 'start' : 'end'}
               className="fill-ink text-[11px] font-semibold"
             >
               Row {r.row}
             </text>
-          ) : rows.length <= 32 || i % 4 === 0 ? (
-            <text x={x(i)} y={H - 6} textAnchor="middle" className="fill-ink-soft text-[9px]">
+          ) : null}
+          {r.flagged || rows.length <= 32 || i % 4 === 0 ? (
+            <text
+              x={x(i)}
+              y={H - 6}
+              textAnchor="middle"
+              className={r.flagged ? 'fill-ink text-[9px] font-semibold' : 'fill-ink-soft text-[9px]'}
+            >
               {r.row}
             </text>
           ) : null}
