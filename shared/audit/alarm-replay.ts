@@ -86,7 +86,7 @@ export function replayAlarms(
     unrepTime += Math.min(dur, delayS);
     if (dur + EPS_S >= delayS) {
       count++;
-      if (alarms.length < MAX_ALARMS_LISTED) {
+      {
         alarms.push({
           startT: start,
           endT: start + dur,
@@ -148,11 +148,22 @@ export function replayAlarms(
   return {
     bandFraction: band,
     delayS,
-    alarms,
+    alarms: spreadOver(alarms, MAX_ALARMS_LISTED),
     count,
     outOfBandTimeS: outTime,
     outOfBandAreaM2: outArea,
     unreportedTimeS: unrepTime,
     unreportedAreaM2: unrepArea,
   };
+}
+
+/**
+ * At most `max` of the alarms, spread evenly over the whole log (the first and the last always among them),
+ * so a map of where alarms began covers the field, not only its first passes.
+ */
+function spreadOver<T>(all: T[], max: number): T[] {
+  if (all.length <= max) return all;
+  const out: T[] = [];
+  for (let k = 0; k < max; k++) out.push(all[Math.round((k * (all.length - 1)) / (max - 1))]);
+  return out;
 }

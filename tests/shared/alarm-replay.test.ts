@@ -183,6 +183,14 @@ describe('replayAlarms', () => {
     expect(r.count).toBe(600);
     expect(r.alarms).toHaveLength(MAX_ALARMS_LISTED);
     expect(MAX_ALARMS_LISTED).toBe(500);
+    // Listed alarms are spread over the whole log: the first and the last alarm are among them, in order.
+    const all = replayAlarms(many.c, many.keep, many.zone, new Float64Array(many.c.n).fill(1), {
+      bandFraction: BAND,
+      delayS: SHORT_DELAY_S,
+    }).alarms;
+    expect(all[0].startT).toBe(many.c.t[2]);
+    expect(all[all.length - 1].startT).toBeGreaterThan(many.c.t[many.c.n - 10]);
+    for (let i = 1; i < all.length; i++) expect(all[i].startT).toBeGreaterThan(all[i - 1].startT);
   });
 
   it('says what is wrong with its input', () => {
