@@ -62,7 +62,8 @@ export function createApp(deps: AppDeps): Express {
         directives: {
           'worker-src': ["'self'", 'blob:'],
           'img-src': ["'self'", 'data:', 'blob:'],
-          'connect-src': ["'self'"],
+          // MapLibre fetches image sources (the coverage raster, drawn in the page) as data: URLs.
+          'connect-src': ["'self'", 'data:'],
           'upgrade-insecure-requests': deps.cookieSecure ? [] : null,
         },
       },

@@ -35,13 +35,17 @@ const logOf = (field: string) => {
 };
 
 /** Opens a demo field's audit and answers its "Why it happened" section. */
-async function diagnosticsOf(field: string): Promise<{ page: Page; why: Locator }> {
+async function diagnosticsOf(field: string): Promise<{ page: Page; why: Locator; consoleErrors: string[] }> {
   const page = await world().signedInPage('agronomist');
+  const consoleErrors: string[] = [];
+  page.on('console', (m) => {
+    if (m.type() === 'error') consoleErrors.push(m.text());
+  });
   await page.goto(`${world().baseUrl}/logs/${logOf(field).id}/audit`);
   await page.getByRole('heading', { level: 1, name: `Audit of ${field}` }).waitFor(WAIT);
   const why = page.getByRole('region', { name: 'Why it happened' });
   await why.waitFor(WAIT);
-  return { page, why };
+  return { page, why, consoleErrors };
 }
 
 const panel = (why: Locator, title: string) => why.getByRole('region', { name: title, exact: true });
@@ -78,7 +82,7 @@ describe('"Why it happened" on the demo audits (each field has one fault of know
   });
 
   it('West slope: ground planted twice, and more alarms after 2 s than after 30 s, on maps that print', async () => {
-    const { page, why } = await diagnosticsOf('West slope');
+    const { page, why, consoleErrors } = await diagnosticsOf('West slope');
     const coverage = panel(why, 'Skipped and double-planted ground');
     await coverage.waitFor();
     // The seeder's fault: passes overlapping by 1.5 m on an 8-row planter, some quarter of each pass.
@@ -106,6 +110,8 @@ describe('"Why it happened" on the demo audits (each field has one fault of know
         .locator('[data-testid="map"][data-ready="true"]')
         .waitFor(WAIT);
     }
+    // The coverage raster loads as an image (a data: URL) under the app's Content Security Policy.
+    expect(consoleErrors.filter((e) => /Content Security Policy|Failed to fetch/.test(e))).toEqual([]);
     const short = page.getByRole('checkbox', { name: 'After 2 s' });
     expect(await short.isChecked()).toBe(true);
     await short.uncheck();
