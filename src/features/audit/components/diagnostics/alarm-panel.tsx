@@ -126,7 +126,9 @@ export function AlarmPanel({
   const bandPct = short.bandFraction * 100;
   const stops = errorStops(2 * bandPct);
   const listed = (r: AlarmReplay) =>
-    r.alarms.length < r.count ? ` (the first ${formatNumber(r.alarms.length)} on the map)` : '';
+    r.alarms.length < r.count
+      ? ` (${formatNumber(r.alarms.length)} of them, spread over the log, on the map)`
+      : '';
 
   return (
     <DiagnosticPanel title="Alarms at two delays" verdict={verdict}>
