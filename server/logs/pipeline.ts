@@ -117,15 +117,10 @@ export async function runPipeline(
     pricePerUnit: input.pricePerUnit,
   });
   const { trueApplied, area, ...result } = audited;
-  const diagnostics = diagnose(
-    input,
-    cleaned.columns,
-    cleaned.keep,
-    cleaned.removedBy,
-    zone,
-    area,
-    input.zones,
-  );
+  const diagnostics =
+    input.diagnose === false
+      ? undefined
+      : diagnose(input, cleaned.columns, cleaned.keep, cleaned.removedBy, zone, area, input.zones);
   const severity = { problem: 0, notice: 1, info: 2 } as const;
   const findings = [
     ...findingsOf(result, input.findings),
