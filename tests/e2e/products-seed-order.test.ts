@@ -257,7 +257,9 @@ describe('seed order and the farmer home', () => {
     expect(await bodyRows().count()).toBe(1);
     expect(await bodyRows().first().innerText()).toContain('Approved');
 
-    await page.getByLabel('Include drafts').check();
+    // The box follows the address (?drafts=true), which the router updates a moment after the click.
+    await page.getByLabel('Include drafts').click();
+    await expect.poll(() => page.getByLabel('Include drafts').isChecked()).toBe(true);
     await expect.poll(() => bodyRows().count()).toBe(2);
     const [big, small] = fields.map((f) => seedsOf(f.areaM2));
     const perField = [big, small].map((q) => Math.ceil(q / 80_000)); // DOMAIN.md §3 (derived): whole units per field
