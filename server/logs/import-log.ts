@@ -70,6 +70,21 @@ function* copyRows(logId: string, out: PipelineOutput): Generator<string> {
   if (chunk) yield chunk;
 }
 
+/** One COPY text row per tile cell. */
+function* cellRows(logId: string, out: PipelineOutput): Generator<string> {
+  const c = out.cells;
+  const v = (x: number) => (Number.isNaN(x) ? '\\N' : String(Math.fround(x)));
+  let chunk = '';
+  for (let i = 0; i < c.length; i++) {
+    chunk += `${logId}\t${c.z[i]}\t${c.tx[i]}\t${c.ty[i]}\t${c.gx[i]}\t${c.gy[i]}\t${c.n[i]}\t${v(c.target[i])}\t${v(c.applied[i])}\t${v(c.appliedTrue[i])}\t${v(c.speed[i])}\n`;
+    if ((i + 1) % ROWS_PER_CHUNK === 0) {
+      yield chunk;
+      chunk = '';
+    }
+  }
+  if (chunk) yield chunk;
+}
+
 async function contextOf(sequelize: Sequelize, logId: string): Promise<LogContext | null> {
   const [row] = await sequelize.query<LogContext>(
     `SELECT l.id, l.workspace_id AS "workspaceId", l.grower_id AS "growerId", l.status, l.mapping, l.cleaning,
@@ -225,6 +240,13 @@ async function storeResults(deps: ImportDeps, ctx: LogContext, out: PipelineOutp
        WHERE audits.status = 'open'`,
       [ctx.workspaceId, ctx.growerId, ctx.id, out.result.bandFraction, JSON.stringify(out.result)],
     );
+    await client.query('DELETE FROM as_applied_cells WHERE log_id = $1', [ctx.id]);
+    const cellCopy = client.query(
+      copyFrom(
+        'COPY as_applied_cells (log_id, z, tx, ty, gx, gy, n, target, applied, applied_true, speed) FROM STDIN',
+      ),
+    );
+    await pipeline(Readable.from(cellRows(ctx.id, out)), cellCopy);
     await addToLogbook(client, ctx, out);
     await client.query(
       `UPDATE as_applied_logs SET status = 'ready', progress = 1, points_read = $2, points_kept = $3,

@@ -15,6 +15,7 @@ import { findingsOf } from '../../shared/audit/findings';
 import { SPEED_SOURCE_CODE, type LogColumns } from '../../shared/audit/log-columns';
 import { pointsFileToCsv } from './points-to-csv';
 import { logbookTotals, type LogbookTotals } from '../../shared/audit/logbook';
+import { tileCells, type TileCells } from '../../shared/audit/tile-cells';
 import { replayAlarms } from '../../shared/audit/alarm-replay';
 import { controllerLag } from '../../shared/audit/controller-lag';
 import { discLimitShortfall } from '../../shared/audit/disc-limit';
@@ -71,6 +72,8 @@ export type PipelineOutput = {
   meteredOn: 'wheel' | 'radar' | 'gnss';
   /** What the log adds to the planter's lifetime counters. */
   logbook: LogbookTotals;
+  /** The kept points averaged per map cell at the middle zooms (the vector tiles read these). */
+  cells: TileCells;
 };
 
 /** The speed the controller metered on: the log's own speed-source column when it has one, else the setting. */
@@ -138,6 +141,7 @@ export async function runPipeline(
     result: { ...result, findings, diagnostics },
     meteredOn,
     logbook: logbookTotals(cleaned.columns, cleaned.removedBy, area, trueApplied, input.fallbackWidthM),
+    cells: tileCells(cleaned.columns, cleaned.keep, trueApplied),
   };
 }
 

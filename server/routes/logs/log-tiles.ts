@@ -1,7 +1,28 @@
 import { QueryTypes } from 'sequelize';
 import { Prescription } from '../../db/associations';
 import { getLog } from './log.service';
+import { CELL_ZOOMS, CELLS_PER_TILE as CELL_COLUMNS, TILE_EXTENT } from '../../../shared/audit/tile-cells';
 import type { Actor } from '../../types';
+
+const CELL_SIZE = TILE_EXTENT / CELL_COLUMNS;
+
+/**
+ * A tile at the middle zooms from the cells averaged at import (shared/audit/tile-cells.ts), already in tile
+ * coordinates: at most 128 × 128 points, read through an index.
+ */
+async function cellTile(logId: string, z: number, x: number, y: number): Promise<Buffer> {
+  const [row] = await Prescription.sequelize!.query<{ tile: Buffer | null }>(
+    `SELECT ST_AsMVT(q, 'points', ${TILE_EXTENT}, 'g') AS tile FROM (
+       SELECT ST_MakePoint(c.gx * ${CELL_SIZE} + ${CELL_SIZE / 2}, c.gy * ${CELL_SIZE} + ${CELL_SIZE / 2}) AS g,
+              round((100 * (c.applied - c.target) / NULLIF(c.target, 0))::numeric, 2)::float8 AS err,
+              round((100 * (c.applied_true - c.target) / NULLIF(c.target, 0))::numeric, 2)::float8 AS true_err,
+              c.applied::float8 AS applied, c.target::float8 AS target, c.speed::float8 AS speed, c.n
+         FROM as_applied_cells c
+        WHERE c.log_id = :logId AND c.z = :z AND c.tx = :x AND c.ty = :y) q`,
+    { replacements: { logId, z, x, y }, type: QueryTypes.SELECT },
+  );
+  return row?.tile ?? Buffer.alloc(0);
+}
 
 /** Web Mercator world width, m (EPSG:3857). */
 const WORLD_M = 40_075_016.68557849;
@@ -16,6 +37,7 @@ const CELLS_PER_TILE = 256;
  */
 export async function logTile(actor: Actor, logId: string, z: number, x: number, y: number): Promise<Buffer> {
   await getLog(actor, logId);
+  if ((CELL_ZOOMS as readonly number[]).includes(z)) return cellTile(logId, z, x, y);
   const cell = WORLD_M / 2 ** z / CELLS_PER_TILE;
   const [row] = await Prescription.sequelize!.query<{ tile: Buffer | null }>(
     `WITH env AS (SELECT ST_TileEnvelope(:z, :x, :y) AS e),
