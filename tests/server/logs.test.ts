@@ -225,6 +225,18 @@ describe('the audit', () => {
       const mean = errs.reduce((a, b) => a + b, 0) / errs.length;
       expect(Math.abs(mean)).toBeLessThan(3);
     }
+    // A log read before the cells existed (none stored) still gets its middle-zoom tiles, from the points.
+    await t.sequelize.query('DELETE FROM as_applied_cells WHERE log_id = :id', {
+      replacements: { id: log.id },
+    });
+    const z = 15;
+    const x = Math.floor(((lon + 180) / 360) * 2 ** z);
+    const y = Math.floor(
+      ((1 - Math.log(Math.tan((lat * Math.PI) / 180) + 1 / Math.cos((lat * Math.PI) / 180)) / Math.PI) / 2) *
+        2 ** z,
+    );
+    const fallback = await getBytes(w.callers.consultant, `/api/logs/${log.id}/tiles/${z}/${x}/${y}`);
+    expect(new VectorTile(new Pbf(fallback.body as Buffer)).layers.points.length).toBeGreaterThan(10);
   });
 });
 

@@ -6,6 +6,15 @@ import type { Actor } from '../../types';
 
 const CELL_SIZE = TILE_EXTENT / CELL_COLUMNS;
 
+/** Logs read before the cells existed have none until they are read again: those tiles come from the points. */
+async function hasCells(logId: string) {
+  const [row] = await Prescription.sequelize!.query<{ has: boolean }>(
+    'SELECT EXISTS (SELECT 1 FROM as_applied_cells WHERE log_id = :logId) AS has',
+    { replacements: { logId }, type: QueryTypes.SELECT },
+  );
+  return row.has;
+}
+
 /**
  * A tile at the middle zooms from the cells averaged at import (shared/audit/tile-cells.ts), already in tile
  * coordinates: at most 128 × 128 points, read through an index.
@@ -37,7 +46,8 @@ const CELLS_PER_TILE = 256;
  */
 export async function logTile(actor: Actor, logId: string, z: number, x: number, y: number): Promise<Buffer> {
   await getLog(actor, logId);
-  if ((CELL_ZOOMS as readonly number[]).includes(z)) return cellTile(logId, z, x, y);
+  if ((CELL_ZOOMS as readonly number[]).includes(z) && (await hasCells(logId)))
+    return cellTile(logId, z, x, y);
   const cell = WORLD_M / 2 ** z / CELLS_PER_TILE;
   const [row] = await Prescription.sequelize!.query<{ tile: Buffer | null }>(
     `WITH env AS (SELECT ST_TileEnvelope(:z, :x, :y) AS e),
