@@ -38,39 +38,70 @@ export function tileXY(lon: number, lat: number, z: number): [number, number] {
  */
 export function tileCells(c: LogColumns, keep: Uint8Array, trueApplied: Float64Array | null): TileCells {
   const speed = c.gnssMps ?? c.speedMps ?? c.wheelMps;
-  const rows: number[][] = [];
-  for (const z of CELL_ZOOMS) {
-    const index = new Map<number, number>();
-    const scale = 2 ** z;
-    for (let i = 0; i < c.n; i++) {
-      if (!keep[i]) continue;
-      const [x, y] = tileXY(c.lon[i], c.lat[i], z);
-      const cx = Math.floor(x * CELLS_PER_TILE);
-      const cy = Math.floor(y * CELLS_PER_TILE);
-      if (!(cx >= 0 && cy >= 0 && cx < scale * CELLS_PER_TILE && cy < scale * CELLS_PER_TILE)) continue;
-      const key = cx * scale * CELLS_PER_TILE + cy;
-      let r = index.get(key);
-      if (r === undefined) {
-        r = rows.length;
-        index.set(key, r);
-        // z, cx, cy, n, Σtarget, ntarget, Σapplied, napplied, Σtrue, ntrue, Σspeed, nspeed
-        rows.push([z, cx, cy, 0, 0, 0, 0, 0, 0, 0, 0, 0]);
+  const top = CELL_ZOOMS[CELL_ZOOMS.length - 1];
+  const side = 2 ** top * CELLS_PER_TILE;
+  // One pass over the points at the deepest zoom (sums and counts per cell), then each shallower zoom by
+  // merging the cells of the one below: a cell at zoom z − 1 is four cells at zoom z.
+  type Acc = number[]; // cx, cy, n, Σtarget, ntarget, Σapplied, napplied, Σtrue, ntrue, Σspeed, nspeed
+  let level = new Map<number, Acc>();
+  const k = side / 360;
+  const ky = side / (4 * Math.PI);
+  const ta = trueApplied;
+  for (let i = 0; i < c.n; i++) {
+    if (!keep[i]) continue;
+    // tileXY at the deepest zoom, scaled to cells, inlined (the hot loop of the import).
+    const sn = Math.sin((c.lat[i] * Math.PI) / 180);
+    const cx = Math.floor((c.lon[i] + 180) * k);
+    const cy = Math.floor(side / 2 - Math.log((1 + sn) / (1 - sn)) * ky);
+    if (!(cx >= 0 && cy >= 0 && cx < side && cy < side)) continue;
+    const key = cx * side + cy;
+    let acc = level.get(key);
+    if (!acc) {
+      acc = [cx, cy, 0, 0, 0, 0, 0, 0, 0, 0, 0];
+      level.set(key, acc);
+    }
+    acc[2]++;
+    const tg = c.target[i];
+    if (tg === tg) {
+      acc[3] += tg;
+      acc[4]++;
+    }
+    const ap = c.applied[i];
+    if (ap === ap) {
+      acc[5] += ap;
+      acc[6]++;
+    }
+    if (ta) {
+      const tr = ta[i];
+      if (tr === tr) {
+        acc[7] += tr;
+        acc[8]++;
       }
-      const row = rows[r];
-      row[3]++;
-      const add = (v: number, at: number) => {
-        if (Number.isFinite(v)) {
-          row[at] += v;
-          row[at + 1]++;
-        }
-      };
-      add(c.target[i], 4);
-      add(c.applied[i], 6);
-      if (trueApplied) add(trueApplied[i], 8);
-      if (speed) add(speed[i], 10);
+    }
+    if (speed) {
+      const sp = speed[i];
+      if (sp === sp) {
+        acc[9] += sp;
+        acc[10]++;
+      }
     }
   }
-  const n = rows.length;
+  const levels: [number, Map<number, Acc>][] = [[top, level]];
+  for (let z = top - 1; z >= CELL_ZOOMS[0]; z--) {
+    const next = new Map<number, Acc>();
+    const zSide = 2 ** z * CELLS_PER_TILE;
+    for (const a of level.values()) {
+      const cx = Math.floor(a[0] / 2);
+      const cy = Math.floor(a[1] / 2);
+      const key = cx * zSide + cy;
+      const b = next.get(key);
+      if (!b) next.set(key, [cx, cy, ...a.slice(2)]);
+      else for (let k = 2; k < a.length; k++) b[k] += a[k];
+    }
+    levels.push([z, next]);
+    level = next;
+  }
+  const n = levels.reduce((s, [, m]) => s + m.size, 0);
   const out: TileCells = {
     z: new Int16Array(n),
     tx: new Int32Array(n),
@@ -85,17 +116,21 @@ export function tileCells(c: LogColumns, keep: Uint8Array, trueApplied: Float64A
     length: n,
   };
   const mean = (s: number, k: number) => (k > 0 ? s / k : Number.NaN);
-  rows.forEach((r, i) => {
-    out.z[i] = r[0];
-    out.tx[i] = Math.floor(r[1] / CELLS_PER_TILE);
-    out.ty[i] = Math.floor(r[2] / CELLS_PER_TILE);
-    out.gx[i] = r[1] % CELLS_PER_TILE;
-    out.gy[i] = r[2] % CELLS_PER_TILE;
-    out.n[i] = r[3];
-    out.target[i] = mean(r[4], r[5]);
-    out.applied[i] = mean(r[6], r[7]);
-    out.appliedTrue[i] = mean(r[8], r[9]);
-    out.speed[i] = mean(r[10], r[11]);
-  });
+  let i = 0;
+  for (const [z, m] of levels) {
+    for (const a of m.values()) {
+      out.z[i] = z;
+      out.tx[i] = Math.floor(a[0] / CELLS_PER_TILE);
+      out.ty[i] = Math.floor(a[1] / CELLS_PER_TILE);
+      out.gx[i] = a[0] % CELLS_PER_TILE;
+      out.gy[i] = a[1] % CELLS_PER_TILE;
+      out.n[i] = a[2];
+      out.target[i] = mean(a[3], a[4]);
+      out.applied[i] = mean(a[5], a[6]);
+      out.appliedTrue[i] = mean(a[7], a[8]);
+      out.speed[i] = mean(a[9], a[10]);
+      i++;
+    }
+  }
   return out;
 }
