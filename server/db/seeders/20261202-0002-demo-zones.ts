@@ -3,25 +3,15 @@ import type { MultiPolygon } from 'geojson';
 import type { MigrationContext } from '../umzug';
 import { zonesFromPoints } from '../../../shared/geo/zones-from-points';
 import { DEMO_WORKSPACE } from './20261202-0001-demo';
-
-/** A small seeded random number generator (mulberry32), so the demo is the same on every machine. */
-function seeded(seed: number) {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+// A small seeded generator (mulberry32), so the demo is the same on every machine.
+import { seededRandom } from '../../../shared/audit/synthetic-log';
 
 /**
  * Invented last-season yield points over a field: a slope across the field, a rolling swell and noise,
  * in bushels per acre. Nothing here is measured; it only gives the demo zones a plausible shape.
  */
 function inventedYieldPoints(boundary: MultiPolygon, seed: number) {
-  const random = seeded(seed);
+  const random = seededRandom(seed);
   const ring = boundary.coordinates[0][0];
   const lons = ring.map((p) => p[0]);
   const lats = ring.map((p) => p[1]);
