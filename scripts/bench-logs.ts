@@ -30,6 +30,8 @@ import { selectColumns, type LogColumns } from '../shared/audit/log-columns';
 import { cleaningSettingsSchema } from '../shared/schemas/as-applied.schema';
 import { rateToSi } from '../shared/rates/rate-units';
 import { runPipeline, type PipelineInput, type PipelineStage } from '../server/logs/pipeline';
+import { copyLogTable, PARTITION_INDEX } from '../server/logs/store-points';
+import { cellColumns, pointColumns } from '../server/logs/import-log';
 
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 const say = (msg: string) => process.stdout.write(`[bench] ${msg}\n`);
@@ -518,32 +520,44 @@ function psqlCopy(databaseUrl: string, file: string) {
 }
 
 /**
- * Where (e)'s time goes: the rows our import stored, written out as COPY text, then loaded by psql \copy
- * into copies of as_applied_points with more and more of what the real table has (the generated point
- * column; the primary key and GiST index; the foreign key to the log).
+ * Where (e)'s time goes: the 1 M log's pipeline output stored again by the import's own steps
+ * (server/logs/store-points.ts) inside a transaction that is rolled back: the binary COPY of the points, the
+ * block-range index, the cells.
  */
-function copyProfile(databaseUrl: string, dir: string, logId: string) {
-  const { run, timed } = psqlOn(databaseUrl);
-  const file = path.join(dir, 'points.copy');
-  const cols =
-    'log_id, seq, t, lon, lat, target, applied, applied_true, wheel_mps, gnss_mps, width_m, area_m2, zone, removed_by';
-  run(
-    `\\copy (SELECT ${cols} FROM as_applied_points WHERE log_id = '${logId}' ORDER BY seq) TO ${quoted(file)}`,
-  );
-  const variants = [
-    ['point column only', 'INCLUDING GENERATED INCLUDING DEFAULTS', ''],
-    ['+ primary key and GiST index', 'INCLUDING ALL', ''],
-    ['+ foreign key to the log', 'INCLUDING ALL', ', FOREIGN KEY (log_id) REFERENCES as_applied_logs (id)'],
-  ] as const;
-  const out: { what: string; ms: number }[] = [];
-  for (const [what, like, fk] of variants) {
-    run(
-      `DROP TABLE IF EXISTS bench_points_copy; CREATE TABLE bench_points_copy (LIKE as_applied_points ${like}${fk})`,
+async function storeProfile(databaseUrl: string, file: string, input: BenchInput, logId: string) {
+  const out = await runPipeline({
+    ...input,
+    bytes: new Uint8Array(readFileSync(file)),
+    fileName: 'x.csv',
+    format: 'csv',
+  });
+  const client = new pg.Client({ connectionString: databaseUrl, application_name: 'sowright-bench-store' });
+  await client.connect();
+  try {
+    await client.query('BEGIN');
+    const t0 = performance.now();
+    const table = await copyLogTable(client, 'points', logId, out.columns.n, pointColumns(logId, out), {
+      index: false,
+    });
+    const t1 = performance.now();
+    await client.query(`CREATE INDEX ON "${table}" ${PARTITION_INDEX.points}`);
+    const t2 = performance.now();
+    await copyLogTable(client, 'cells', logId, out.cells.length, cellColumns(logId, out));
+    const t3 = performance.now();
+    const { rows } = await client.query<{ mb: number }>(
+      `SELECT pg_total_relation_size('"${table}"') / 1048576.0 AS mb`,
     );
-    out.push({ what, ms: timed(`\\copy bench_points_copy (${cols}) FROM ${quoted(file)}`) });
+    return {
+      copyMs: t1 - t0,
+      indexMs: t2 - t1,
+      cellsMs: t3 - t2,
+      cells: out.cells.length,
+      tableMb: Number(rows[0].mb),
+    };
+  } finally {
+    await client.query('ROLLBACK').catch(() => {});
+    await client.end();
   }
-  run('DROP TABLE bench_points_copy');
-  return out;
 }
 
 /* ------------------------------------------------------------------ (f) upload to audit ready */
@@ -612,6 +626,7 @@ async function uploadToReady(
     logId: log.id,
     ms: t1 - t0,
     previewMs: tPreview - t0,
+    startMs: (seen.reading ?? tPreview) - tPreview,
     pipelineMs: (seen.storing ?? t1) - (seen.reading ?? seen.queued ?? tPreview),
     storeMs: (seen.ready ?? t1) - (seen.storing ?? t1),
     storingSeen: seen.storing !== undefined && seen.ready !== undefined,
@@ -678,6 +693,104 @@ async function tiles(base: string, cookie: string, logId: string, boundary: Mult
     );
   }
   return { p95: quantile(all, 0.95), maxKb: maxBytes / 1024, perZoom };
+}
+
+/** (a)–(d): the floor, our audit, the peer and peak RSS (skipped by `npm run bench -- --storage`). */
+async function computeFigures(
+  files: Record<number, string>,
+  input: BenchInput,
+  inputFile: string,
+  big: boolean,
+) {
+  // (a) and (b), alternating, median of three after a warm-up on 100 k.
+  say('(a) byte-level parse floor and (b) our audit, 1 M points, in this process (median of 3)');
+  parseFloor(files[100_000]);
+  await ours(files[100_000], input);
+  const floorMs: number[] = [];
+  const oursRuns: Awaited<ReturnType<typeof ours>>[] = [];
+  for (let k = 0; k < 3; k++) {
+    const t = performance.now();
+    const f = parseFloor(files[1_000_000]);
+    floorMs.push(performance.now() - t);
+    if (f.n !== 1_000_000) throw new Error(`the floor read ${f.n} rows, not 1 000 000`);
+    oursRuns.push(await ours(files[1_000_000], input));
+  }
+  const floor = median(floorMs);
+  const our = oursRuns.sort((x, y) => x.ms - y.ms)[1];
+  say(`  (a) floor: ${fmt(floor)} ms (${floorMs.map((x) => fmt(x)).join(', ')})`);
+  say(
+    `  (b) ours: ${fmt(our.ms)} ms (${oursRuns.map((x) => fmt(x.ms)).join(', ')}): read ${fmt(our.readMs)}, parse ${fmt(our.parseMs)}, ` +
+      `join + clean ${fmt(our.joinCleanMs)}, audit + findings ${fmt(our.auditMs)} ms; ${fmt(our.pointsRead)} read, ${fmt(our.kept)} kept, ${our.zonesWithPoints} zones with points`,
+  );
+
+  // Issue "diagnostics": the same pipeline with the diagnostics (alarm replay, lag, disc limit, rows,
+  // coverage) on; target 1 is the audit itself, so they are timed apart.
+  const withDiagnostics = await ours(files[1_000_000], input, true);
+  say(
+    `  (b+) with the diagnostics: ${fmt(withDiagnostics.ms)} ms, of which diagnostics about ${fmt(withDiagnostics.ms - our.ms)} ms`,
+  );
+
+  const profile = oursProfile(files[1_000_000], input);
+  say(
+    `  (b) step by step: read ${fmt(profile.readMs)}, parseLogCsv ${fmt(profile.parseMs)}, zoneIndexOf ${fmt(profile.joinMs)}, cleanLog ${fmt(profile.cleanMs)} ms`,
+  );
+
+  let big5: { floorMs: number; oursMs: number } | null = null;
+  if (big) {
+    const t = performance.now();
+    parseFloor(files[5_000_000]);
+    const fm = performance.now() - t;
+    const o = await ours(files[5_000_000], input);
+    big5 = { floorMs: fm, oursMs: o.ms };
+    say(`  5 M points: floor ${fmt(fm)} ms, ours ${fmt(o.ms)} ms (${fmt(o.ms / fm, 2)}×)`);
+  }
+
+  // (c) the peer: on 100 k first; on 1 M when that would take under a minute, else scaled.
+  say('(c) peer: papaparse streaming + Turf booleanPointInPolygon over the zones + a mean per zone');
+  const p100 = await peer(
+    files[100_000],
+    input.zones.map((z) => z.geometry),
+  );
+  say(`  100 k: ${fmt(p100.ms)} ms, ${p100.zonesWithPoints} zones with points`);
+  let peerMs: number;
+  let peerNote: string;
+  if (p100.ms * 10 < 60_000) {
+    const p1m = await peer(
+      files[1_000_000],
+      input.zones.map((z) => z.geometry),
+    );
+    peerMs = p1m.ms;
+    peerNote = 'measured on 1 M';
+    say(`  1 M: ${fmt(p1m.ms)} ms`);
+  } else {
+    peerMs = p100.ms * 10;
+    peerNote = 'measured on 100 k, scaled ×10 (linear)';
+    say(`  1 M: ${fmt(peerMs)} ms (${peerNote})`);
+  }
+
+  // (d) peak RSS of (b) in a child of its own.
+  say('(d) peak RSS of our audit in a child process of its own (tsx loaded)');
+  const rss1 = rssChild(files[1_000_000], inputFile);
+  say(
+    `  1 M: peak ${fmt(rss1.maxRssMb)} MB (the child with tsx and nothing read: ${fmt(rss1.baseRssMb)} MB)`,
+  );
+  const rss5 = big ? rssChild(files[5_000_000], inputFile) : null;
+  if (rss5) say(`  5 M: peak ${fmt(rss5.maxRssMb)} MB`);
+
+  return { floor, our, profile, withDiagnostics, peerMs, peerNote, rss1, rss5, big5 };
+}
+
+/** (a) alone, median of three after a warm-up, for the storage-only run. */
+function floorOnly(file: string) {
+  parseFloor(file);
+  const ms: number[] = [];
+  for (let k = 0; k < 3; k++) {
+    const t = performance.now();
+    parseFloor(file);
+    ms.push(performance.now() - t);
+  }
+  say(`  (a) floor: ${fmt(median(ms))} ms`);
+  return median(ms);
 }
 
 /* ------------------------------------------------------------------ the run */
@@ -766,97 +879,24 @@ async function main() {
   const inputFile = path.join(dir, 'pipeline-input.json');
   writeFileSync(inputFile, JSON.stringify(input));
 
-  // (a) and (b), alternating, median of three after a warm-up on 100 k.
-  say('(a) byte-level parse floor and (b) our audit, 1 M points, in this process (median of 3)');
-  parseFloor(files[100_000]);
-  await ours(files[100_000], input);
-  const floorMs: number[] = [];
-  const oursRuns: Awaited<ReturnType<typeof ours>>[] = [];
-  for (let k = 0; k < 3; k++) {
-    const t = performance.now();
-    const f = parseFloor(files[1_000_000]);
-    floorMs.push(performance.now() - t);
-    if (f.n !== 1_000_000) throw new Error(`the floor read ${f.n} rows, not 1 000 000`);
-    oursRuns.push(await ours(files[1_000_000], input));
-  }
-  const floor = median(floorMs);
-  const our = oursRuns.sort((x, y) => x.ms - y.ms)[1];
-  say(`  (a) floor: ${fmt(floor)} ms (${floorMs.map((x) => fmt(x)).join(', ')})`);
-  say(
-    `  (b) ours: ${fmt(our.ms)} ms (${oursRuns.map((x) => fmt(x.ms)).join(', ')}): read ${fmt(our.readMs)}, parse ${fmt(our.parseMs)}, ` +
-      `join + clean ${fmt(our.joinCleanMs)}, audit + findings ${fmt(our.auditMs)} ms; ${fmt(our.pointsRead)} read, ${fmt(our.kept)} kept, ${our.zonesWithPoints} zones with points`,
-  );
-
-  // Issue "diagnostics": the same pipeline with the diagnostics (alarm replay, lag, disc limit, rows,
-  // coverage) on; target 1 is the audit itself, so they are timed apart.
-  const withDiagnostics = await ours(files[1_000_000], input, true);
-  say(
-    `  (b+) with the diagnostics: ${fmt(withDiagnostics.ms)} ms, of which diagnostics about ${fmt(withDiagnostics.ms - our.ms)} ms`,
-  );
-
-  const profile = oursProfile(files[1_000_000], input);
-  say(
-    `  (b) step by step: read ${fmt(profile.readMs)}, parseLogCsv ${fmt(profile.parseMs)}, zoneIndexOf ${fmt(profile.joinMs)}, cleanLog ${fmt(profile.cleanMs)} ms`,
-  );
-
-  let big5: { floorMs: number; oursMs: number } | null = null;
-  if (big) {
-    const t = performance.now();
-    parseFloor(files[5_000_000]);
-    const fm = performance.now() - t;
-    const o = await ours(files[5_000_000], input);
-    big5 = { floorMs: fm, oursMs: o.ms };
-    say(`  5 M points: floor ${fmt(fm)} ms, ours ${fmt(o.ms)} ms (${fmt(o.ms / fm, 2)}×)`);
-  }
-
-  // (c) the peer: on 100 k first; on 1 M when that would take under a minute, else scaled.
-  say('(c) peer: papaparse streaming + Turf booleanPointInPolygon over the zones + a mean per zone');
-  const p100 = await peer(
-    files[100_000],
-    input.zones.map((z) => z.geometry),
-  );
-  say(`  100 k: ${fmt(p100.ms)} ms, ${p100.zonesWithPoints} zones with points`);
-  let peerMs: number;
-  let peerNote: string;
-  if (p100.ms * 10 < 60_000) {
-    const p1m = await peer(
-      files[1_000_000],
-      input.zones.map((z) => z.geometry),
-    );
-    peerMs = p1m.ms;
-    peerNote = 'measured on 1 M';
-    say(`  1 M: ${fmt(p1m.ms)} ms`);
-  } else {
-    peerMs = p100.ms * 10;
-    peerNote = 'measured on 100 k, scaled ×10 (linear)';
-    say(`  1 M: ${fmt(peerMs)} ms (${peerNote})`);
-  }
-
-  // (d) peak RSS of (b) in a child of its own.
-  say('(d) peak RSS of our audit in a child process of its own (tsx loaded)');
-  const rss1 = rssChild(files[1_000_000], inputFile);
-  say(
-    `  1 M: peak ${fmt(rss1.maxRssMb)} MB (the child with tsx and nothing read: ${fmt(rss1.baseRssMb)} MB)`,
-  );
-  const rss5 = big ? rssChild(files[5_000_000], inputFile) : null;
-  if (rss5) say(`  5 M: peak ${fmt(rss5.maxRssMb)} MB`);
-
+  const storageOnly = process.env.BENCH_PART === 'storage';
+  const compute = storageOnly ? null : await computeFigures(files, input, inputFile, big);
+  const floor = compute?.floor ?? floorOnly(files[1_000_000]);
   // (e) psql \copy of the same CSV into a plain table; (f) upload to audit ready through the API, whose
-  // storing step is our COPY into as_applied_points (generated geometry, GiST index, primary key).
+  // storing is a binary COPY into the log's own partition (server/logs/store-points.ts).
   say('(e) psql \\copy of the 1 M CSV into a plain table on the same cluster');
   const psql = psqlCopy(databaseUrl, files[1_000_000]);
   say(`  ${fmt(psql.ms)} ms for ${fmt(psql.n)} rows`);
   say('(f) upload to audit ready through the API (preview + create, poll GET /api/logs/:id)');
   const e2e = await uploadToReady(base, cookie, databaseUrl, files[1_000_000], rx, planter.id);
   say(
-    `  ${fmt(e2e.ms)} ms: preview ${fmt(e2e.previewMs)}, pipeline in the worker ${fmt(e2e.pipelineMs)}, storing (our COPY + audit, one transaction) ${fmt(e2e.storeMs)} ms; ${fmt(e2e.pointsRead ?? 0)} points stored`,
+    `  ${fmt(e2e.ms)} ms: preview ${fmt(e2e.previewMs)}, create and start ${fmt(e2e.startMs)}, pipeline in the worker ${fmt(e2e.pipelineMs)} (the points' COPY runs beside its diagnostics), then the rest of storing (cells, audit, commit) ${fmt(e2e.storeMs)} ms; ${fmt(e2e.pointsRead ?? 0)} points stored`,
   );
 
-  const copySteps = copyProfile(databaseUrl, dir, e2e.logId);
+  const store = await storeProfile(databaseUrl, files[1_000_000], input, e2e.logId);
   say(
-    `  (e) profile, psql \\copy of the same stored rows as COPY text into a copy of as_applied_points: ${copySteps
-      .map((c) => `${c.what} ${fmt(c.ms)} ms`)
-      .join('; ')}`,
+    `  (e) profile, the 1 M log stored again (rolled back): binary COPY of the points ${fmt(store.copyMs)} ms, ` +
+      `block-range index ${fmt(store.indexMs)} ms (table ${fmt(store.tableMb)} MB), ${fmt(store.cells)} tile cells ${fmt(store.cellsMs)} ms`,
   );
 
   say('(g) vector tiles of the stored 1 M-point log: 50 random tiles over the field at each zoom 12–18');
@@ -871,14 +911,14 @@ async function main() {
       fileMb: bytes1m / 1e6,
     },
     floorMs: floor,
-    ours: our,
-    profile,
-    copySteps,
-    peerMs,
-    peerNote,
-    rss1,
-    rss5,
-    big5,
+    ours: compute?.our ?? null,
+    profile: compute?.profile ?? null,
+    store,
+    peerMs: compute?.peerMs ?? null,
+    peerNote: compute?.peerNote ?? null,
+    rss1: compute?.rss1 ?? null,
+    rss5: compute?.rss5 ?? null,
+    big5: compute?.big5 ?? null,
     psqlMs: psql.ms,
     e2e,
     tiles: tile,

@@ -135,6 +135,10 @@ export async function startCluster({ baseDir, port, dbName }) {
       `-c synchronous_commit=on`,
       `-c full_page_writes=on`,
       `-c max_connections=100`,
+      // No replication or archiving here: a log's points are COPYed into a table made in the same
+      // transaction, which then writes no WAL (PostgreSQL manual, "Populating a Database" 14.4.7).
+      `-c wal_level=minimal`,
+      `-c max_wal_senders=0`,
     ].join(' ');
     runPg('pg_ctl', ['-D', dataDir, '-l', logFile, '-o', opts, '-w', '-t', '60', 'start']);
     log(`PostgreSQL listening on 127.0.0.1:${port}`);

@@ -1,12 +1,11 @@
 import { QueryTypes, type Sequelize } from 'sequelize';
 import pg from 'pg';
-import { from as copyFrom } from 'pg-copy-streams';
-import { pipeline } from 'node:stream/promises';
-import { Readable } from 'node:stream';
 import type { MultiPolygon } from 'geojson';
 import type { FileStore } from './file-store';
+import type { BinaryColumn } from './copy-binary';
+import { attachLogTables, copyLogTable } from './store-points';
 import { runPipelineInWorker, LogReadError } from './pipeline-runner';
-import type { PipelineOutput } from './pipeline';
+import type { PipelineOutput, StoredPoints } from './pipeline';
 import { cleaningSettingsSchema, columnMappingSchema } from '../../shared/schemas/as-applied.schema';
 import type { RateUnit } from '../../shared/rates/rate-units';
 import type { UnitSystem } from '../../shared/units';
@@ -53,36 +52,42 @@ export type ImportDeps = {
   onReady?: (logId: string) => Promise<void>;
 };
 
-const ROWS_PER_CHUNK = 20_000;
-
-/** One COPY text row per point (tab separated, \N for missing). */
-function* copyRows(logId: string, out: PipelineOutput): Generator<string> {
+/** A log's points as binary COPY columns (store-points.ts), in the partition's column order. */
+export function pointColumns(logId: string, out: StoredPoints): { name: string; column: BinaryColumn }[] {
   const c = out.columns;
-  const v = (x: number | undefined) => (x === undefined || Number.isNaN(x) ? '\\N' : String(x));
-  let chunk = '';
-  for (let i = 0; i < c.n; i++) {
-    chunk += `${logId}\t${i}\t${c.t[i]}\t${c.lon[i]}\t${c.lat[i]}\t${v(c.target[i])}\t${v(c.applied[i])}\t${v(out.trueApplied?.[i])}\t${v(c.wheelMps?.[i])}\t${v(c.gnssMps?.[i])}\t${v(c.widthM?.[i])}\t${v(out.area[i])}\t${out.zone[i]}\t${out.removedBy[i]}\n`;
-    if ((i + 1) % ROWS_PER_CHUNK === 0) {
-      yield chunk;
-      chunk = '';
-    }
-  }
-  if (chunk) yield chunk;
+  return [
+    { name: 'log_id', column: { type: 'uuid', value: logId } },
+    { name: 'seq', column: { type: 'rowNumber' } },
+    { name: 't', column: { type: 'float8', values: c.t } },
+    { name: 'geom', column: { type: 'point4326', lon: c.lon, lat: c.lat } },
+    { name: 'target', column: { type: 'float4', values: c.target } },
+    { name: 'applied', column: { type: 'float4', values: c.applied } },
+    { name: 'applied_true', column: { type: 'float4', values: out.trueApplied } },
+    { name: 'wheel_mps', column: { type: 'float4', values: c.wheelMps } },
+    { name: 'gnss_mps', column: { type: 'float4', values: c.gnssMps } },
+    { name: 'width_m', column: { type: 'float4', values: c.widthM } },
+    { name: 'area_m2', column: { type: 'float4', values: out.area } },
+    { name: 'zone', column: { type: 'int2', values: out.zone } },
+    { name: 'removed_by', column: { type: 'int2', values: out.removedBy } },
+  ];
 }
 
-/** One COPY text row per tile cell. */
-function* cellRows(logId: string, out: PipelineOutput): Generator<string> {
+/** A log's tile cells as binary COPY columns. */
+export function cellColumns(logId: string, out: PipelineOutput): { name: string; column: BinaryColumn }[] {
   const c = out.cells;
-  const v = (x: number) => (Number.isNaN(x) ? '\\N' : String(Math.fround(x)));
-  let chunk = '';
-  for (let i = 0; i < c.length; i++) {
-    chunk += `${logId}\t${c.z[i]}\t${c.tx[i]}\t${c.ty[i]}\t${c.gx[i]}\t${c.gy[i]}\t${c.n[i]}\t${v(c.target[i])}\t${v(c.applied[i])}\t${v(c.appliedTrue[i])}\t${v(c.speed[i])}\n`;
-    if ((i + 1) % ROWS_PER_CHUNK === 0) {
-      yield chunk;
-      chunk = '';
-    }
-  }
-  if (chunk) yield chunk;
+  return [
+    { name: 'log_id', column: { type: 'uuid', value: logId } },
+    { name: 'z', column: { type: 'int2', values: c.z } },
+    { name: 'tx', column: { type: 'int4', values: c.tx } },
+    { name: 'ty', column: { type: 'int4', values: c.ty } },
+    { name: 'gx', column: { type: 'int2', values: c.gx } },
+    { name: 'gy', column: { type: 'int2', values: c.gy } },
+    { name: 'n', column: { type: 'int4', values: c.n } },
+    { name: 'target', column: { type: 'float4', values: c.target } },
+    { name: 'applied', column: { type: 'float4', values: c.applied } },
+    { name: 'applied_true', column: { type: 'float4', values: c.appliedTrue } },
+    { name: 'speed', column: { type: 'float4', values: c.speed } },
+  ];
 }
 
 async function contextOf(sequelize: Sequelize, logId: string): Promise<LogContext | null> {
@@ -118,6 +123,7 @@ export async function importLog(deps: ImportDeps, logId: string) {
   const ctx = await contextOf(sequelize, logId);
   if (!ctx) return;
   let pending: Promise<void> = Promise.resolve();
+  let store: Promise<pg.Client> | null = null;
   const setStatus = async (status: string, progress: number) => {
     await sequelize.query(
       `UPDATE as_applied_logs SET status = :status, progress = :progress,
@@ -189,14 +195,24 @@ export async function importLog(deps: ImportDeps, logId: string) {
         lastWrite = now;
         pending = pending.then(() => setStatus(stage, fraction)).catch(() => {});
       },
+      (points) => {
+        // The COPY of the points runs on the database's core while the worker computes the diagnostics.
+        store = beginStore(deps, ctx, points);
+        store.catch(() => {});
+      },
     );
     await pending;
     await setStatus('storing', 0);
-    await storeResults(deps, ctx, output);
+    const client = await (store ?? beginStore(deps, ctx, output));
+    store = null;
+    await finishStore(client, ctx, output);
     await deps
       .onReady?.(logId)
       .catch((err: Error) => process.stderr.write(`[logs] ready mail: ${err.message}\n`));
   } catch (err) {
+    // A storing transaction still open (the pipeline failed after the points were known) stores nothing.
+    const open = await (store as Promise<pg.Client> | null)?.catch(() => null);
+    if (open) await endStore(open, false);
     // Progress writes still queued must land before `failed`, never after it.
     await pending.catch(() => {});
     // A reading error names its line; anything else (the database, the disk) stored nothing and says so.
@@ -213,8 +229,12 @@ export async function importLog(deps: ImportDeps, logId: string) {
   }
 }
 
-/** Points (COPY) and the audit in one transaction on a connection of our own. */
-async function storeResults(deps: ImportDeps, ctx: LogContext, out: PipelineOutput) {
+/**
+ * Storing is ONE transaction on a connection of our own: it opens as soon as the points are known and COPYs
+ * them into a new table (store-points.ts); `finishStore` adds the cells, the audit, the logbook and the
+ * status, attaches the tables and commits. Any failure rolls all of it back.
+ */
+async function beginStore(deps: ImportDeps, ctx: LogContext, points: StoredPoints): Promise<pg.Client> {
   const client = new pg.Client({
     connectionString: deps.databaseUrl,
     application_name: 'sowright-log-import',
@@ -223,13 +243,25 @@ async function storeResults(deps: ImportDeps, ctx: LogContext, out: PipelineOutp
   await client.connect();
   try {
     await client.query('BEGIN');
-    await client.query('DELETE FROM as_applied_points WHERE log_id = $1', [ctx.id]);
-    const copy = client.query(
-      copyFrom(
-        'COPY as_applied_points (log_id, seq, t, lon, lat, target, applied, applied_true, wheel_mps, gnss_mps, width_m, area_m2, zone, removed_by) FROM STDIN',
-      ),
-    );
-    await pipeline(Readable.from(copyRows(ctx.id, out)), copy);
+    await copyLogTable(client, 'points', ctx.id, points.columns.n, pointColumns(ctx.id, points));
+    return client;
+  } catch (err) {
+    await endStore(client, false);
+    throw err;
+  }
+}
+
+async function endStore(client: pg.Client, commit: boolean) {
+  try {
+    if (commit) await client.query('COMMIT');
+    else await client.query('ROLLBACK').catch(() => {});
+  } finally {
+    await client.end().catch(() => {});
+  }
+}
+
+async function finishStore(client: pg.Client, ctx: LogContext, out: PipelineOutput) {
+  try {
     let kept = 0;
     for (let i = 0; i < out.removedBy.length; i++) if (out.removedBy[i] === 0) kept++;
     await client.query(
@@ -240,13 +272,7 @@ async function storeResults(deps: ImportDeps, ctx: LogContext, out: PipelineOutp
        WHERE audits.status = 'open'`,
       [ctx.workspaceId, ctx.growerId, ctx.id, out.result.bandFraction, JSON.stringify(out.result)],
     );
-    await client.query('DELETE FROM as_applied_cells WHERE log_id = $1', [ctx.id]);
-    const cellCopy = client.query(
-      copyFrom(
-        'COPY as_applied_cells (log_id, z, tx, ty, gx, gy, n, target, applied, applied_true, speed) FROM STDIN',
-      ),
-    );
-    await pipeline(Readable.from(cellRows(ctx.id, out)), cellCopy);
+    await copyLogTable(client, 'cells', ctx.id, out.cells.length, cellColumns(ctx.id, out));
     await addToLogbook(client, ctx, out);
     await client.query(
       `UPDATE as_applied_logs SET status = 'ready', progress = 1, points_read = $2, points_kept = $3,
@@ -254,13 +280,12 @@ async function storeResults(deps: ImportDeps, ctx: LogContext, out: PipelineOutp
         WHERE id = $1`,
       [ctx.id, out.pointsRead, kept, JSON.stringify(out.report), out.meteredOn],
     );
-    await client.query('COMMIT');
+    await attachLogTables(client, ctx.id, ['points', 'cells']);
   } catch (err) {
-    await client.query('ROLLBACK').catch(() => {});
+    await endStore(client, false);
     throw err;
-  } finally {
-    await client.end().catch(() => {});
   }
+  await endStore(client, true);
 }
 
 /**

@@ -2,6 +2,7 @@ import type { Sequelize } from 'sequelize';
 import { QUEUES, startJobs } from '../jobs/boss';
 import type { FileStore } from './file-store';
 import { importLog } from './import-log';
+import { stopPipelineWorker, warmPipelineWorker } from './pipeline-runner';
 
 export type LogJobs = {
   /** Queues the import of a log; a log already queued is not queued twice. */
@@ -21,7 +22,8 @@ export async function startLogJobs(deps: {
   onReady?: (logId: string) => Promise<void>;
 }): Promise<LogJobs> {
   const jobs = await startJobs(deps.databaseUrl);
-  await jobs.boss.work<{ logId: string }>(
+  warmPipelineWorker();
+  const workerId = await jobs.boss.work<{ logId: string }>(
     QUEUES.logImport,
     { batchSize: 1, pollingIntervalSeconds: 0.5 },
     async ([job]) => {
@@ -35,7 +37,12 @@ export async function startLogJobs(deps: {
         { logId },
         { singletonKey: logId, retryLimit: 2, retryDelay: 5, expireInSeconds: 15 * 60 },
       );
+      // This process's worker fetches at once instead of at its next poll (up to half a second later).
+      jobs.boss.notifyWorker(workerId);
     },
-    stop: () => jobs.stop(),
+    async stop() {
+      await jobs.stop();
+      await stopPipelineWorker();
+    },
   };
 }

@@ -1,48 +1,58 @@
-import { parentPort, workerData } from 'node:worker_threads';
-import { runPipeline, type PipelineInput } from './pipeline';
+import { parentPort } from 'node:worker_threads';
+import { runPipeline, storedPointsOf, type PipelineInput } from './pipeline';
 import type { WorkerMessage } from './pipeline-runner';
 
-/** The worker side: runs the pipeline on workerData and posts progress, then the result by transfer. */
+/**
+ * The worker side: waits for one input, runs the pipeline, posts progress, then a copy of the points to
+ * store as soon as the audit has them (the import starts its COPY while the diagnostics run here), then the
+ * result by transfer. One run per worker: the runner ends it afterwards, which frees its memory.
+ */
 const post = (m: WorkerMessage, transfer: ArrayBuffer[] = []) => parentPort!.postMessage(m, transfer);
 
-try {
-  let last = 0;
-  const output = await runPipeline(workerData as PipelineInput, (stage, fraction) => {
-    const now = Date.now();
-    if (now - last > 200 || fraction === 0 || fraction === 1) {
-      last = now;
-      post({ type: 'progress', stage, fraction });
+parentPort!.once('message', async (input: PipelineInput) => {
+  try {
+    let last = 0;
+    const output = await runPipeline(
+      input,
+      (stage, fraction) => {
+        const now = Date.now();
+        if (now - last > 200 || fraction === 0 || fraction === 1) {
+          last = now;
+          post({ type: 'progress', stage, fraction });
+        }
+      },
+      (points) => post({ type: 'points', points: storedPointsOf(points) }),
+    );
+    const c = output.columns;
+    const buffers = new Set<ArrayBuffer>();
+    for (const a of [
+      c.t,
+      c.lon,
+      c.lat,
+      c.heading,
+      c.target,
+      c.applied,
+      c.speedMps,
+      c.wheelMps,
+      c.gnssMps,
+      c.speedSource,
+      c.widthM,
+      c.sectionsOn,
+      c.workOn,
+      output.zone,
+      output.removedBy,
+      output.trueApplied,
+      output.area,
+      ...c.rows.map((r) => r.values),
+    ]) {
+      if (a) buffers.add(a.buffer as ArrayBuffer);
     }
-  });
-  const c = output.columns;
-  const buffers = new Set<ArrayBuffer>();
-  for (const a of [
-    c.t,
-    c.lon,
-    c.lat,
-    c.heading,
-    c.target,
-    c.applied,
-    c.speedMps,
-    c.wheelMps,
-    c.gnssMps,
-    c.speedSource,
-    c.widthM,
-    c.sectionsOn,
-    c.workOn,
-    output.zone,
-    output.removedBy,
-    output.trueApplied,
-    output.area,
-    ...c.rows.map((r) => r.values),
-  ]) {
-    if (a) buffers.add(a.buffer as ArrayBuffer);
+    post({ type: 'done', output }, [...buffers]);
+  } catch (err) {
+    const e = err as Error & { line?: number; column?: string | null; code?: string };
+    post({
+      type: 'error',
+      error: { name: e.name, message: e.message, code: e.code, line: e.line, column: e.column ?? null },
+    });
   }
-  post({ type: 'done', output }, [...buffers]);
-} catch (err) {
-  const e = err as Error & { line?: number; column?: string | null; code?: string };
-  post({
-    type: 'error',
-    error: { name: e.name, message: e.message, code: e.code, line: e.line, column: e.column ?? null },
-  });
-}
+});

@@ -60,13 +60,30 @@ export type PipelineInput = {
   };
 };
 
-export type PipelineOutput = {
+/** What storing a log's points needs: known once the audit has run, before the diagnostics. */
+export type PipelinePoints = {
   pointsRead: number;
   columns: LogColumns;
   zone: Int16Array;
   removedBy: Uint8Array;
   trueApplied: Float64Array | null;
   area: Float64Array;
+};
+
+/** The part of the points that is stored (server/logs/import-log.ts pointColumns), small enough to copy. */
+export type StoredPoints = Omit<PipelinePoints, 'columns'> & {
+  columns: Pick<
+    LogColumns,
+    'n' | 't' | 'lon' | 'lat' | 'target' | 'applied' | 'wheelMps' | 'gnssMps' | 'widthM'
+  >;
+};
+
+export const storedPointsOf = (p: PipelinePoints): StoredPoints => {
+  const { n, t, lon, lat, target, applied, wheelMps, gnssMps, widthM } = p.columns;
+  return { ...p, columns: { n, t, lon, lat, target, applied, wheelMps, gnssMps, widthM } };
+};
+
+export type PipelineOutput = PipelinePoints & {
   report: CleaningReport;
   result: AuditResult;
   meteredOn: 'wheel' | 'radar' | 'gnss';
@@ -95,6 +112,8 @@ function meteredOnOf(c: LogColumns, keep: Uint8Array, fallback: PipelineInput['m
 export async function runPipeline(
   input: PipelineInput,
   progress: (stage: PipelineStage, fraction: number) => void = () => {},
+  /** Told the points as soon as they are known, so the caller can store them while the diagnostics run. */
+  onPoints?: (points: PipelinePoints) => void,
 ): Promise<PipelineOutput> {
   progress('reading', 0);
   const csv = input.format === 'csv' ? input.bytes : await pointsFileToCsv(input.bytes, input.fileName);
@@ -120,6 +139,15 @@ export async function runPipeline(
     pricePerUnit: input.pricePerUnit,
   });
   const { trueApplied, area, ...result } = audited;
+  const points: PipelinePoints = {
+    pointsRead: parsed.n,
+    columns: cleaned.columns,
+    zone,
+    removedBy: cleaned.removedBy,
+    trueApplied,
+    area,
+  };
+  onPoints?.(points);
   const diagnostics =
     input.diagnose === false
       ? undefined
@@ -131,12 +159,7 @@ export async function runPipeline(
   ].sort((a, b) => severity[a.severity] - severity[b.severity]);
   progress('auditing', 1);
   return {
-    pointsRead: parsed.n,
-    columns: cleaned.columns,
-    zone,
-    removedBy: cleaned.removedBy,
-    trueApplied,
-    area,
+    ...points,
     report: cleaned.report,
     result: { ...result, findings, diagnostics },
     meteredOn,

@@ -6,7 +6,7 @@ import { startTestApp, type TestApp } from '../helpers/app';
 import { makeWorld, type World } from '../helpers/factory';
 import { auditSchema, CLEANING_STEPS } from '../../shared/schemas/as-applied.schema';
 import type { Prescription } from '../../shared/schemas/prescription.schema';
-import { getBytes } from './zone-maps.helpers';
+import { del, getBytes } from './zone-maps.helpers';
 import { shapefileOf, zipShapefile } from './imports-support';
 import { approvedHalves, logCsvFor, mappingOf, preview, settled, uploadLog } from './logs.helpers';
 import { perAc } from './prescriptions.helpers';
@@ -32,6 +32,19 @@ const pointCount = async (logId: string) =>
       },
     )
   )[0].n;
+
+/** The agronomist reads a log again with its cleaning settings and another band; answers it when ready. */
+async function readAgain(log: { id: string; version: number; cleaning: unknown }, bandFraction: number) {
+  const res = await w.callers.agronomist.post(`/api/logs/${log.id}/clean`, {
+    version: log.version,
+    cleaning: log.cleaning,
+    bandFraction,
+  });
+  expect(res.status, JSON.stringify(res.body)).toBe(200);
+  const done = await settled(w.callers.agronomist, log.id);
+  expect(done.status).toBe('ready');
+  return done;
+}
 
 describe('importing a log', () => {
   it('reads, cleans and audits a CSV in the background, keeps every point once, and e-mails the farmer', async () => {
@@ -149,15 +162,54 @@ describe('importing a log', () => {
     expect(failed.status).toBe('failed');
     expect(await pointCount(log.id)).toBe(0);
 
-    const retry = await w.callers.agronomist.post(`/api/logs/${log.id}/clean`, {
-      version: failed.version,
-      cleaning: failed.cleaning,
-      bandFraction: 0.15,
-    });
-    expect(retry.status, JSON.stringify(retry.body)).toBe(200);
+    const done = await readAgain(failed, 0.15);
+    expect(await pointCount(log.id)).toBe(done.pointsRead);
+  });
+});
+
+describe('where a log is stored', () => {
+  const tables = async (logId: string) =>
+    t.sequelize.query<{ relname: string; parent: string | null; rows: number }>(
+      `SELECT c.relname, p.relname AS parent, c.reltuples::int AS rows
+         FROM pg_class c LEFT JOIN pg_inherits i ON i.inhrelid = c.oid LEFT JOIN pg_class p ON p.oid = i.inhparent
+        WHERE c.relkind = 'r' AND c.relname LIKE :pattern ORDER BY c.relname`,
+      { replacements: { pattern: `as_applied_%_${logId.replace(/-/g, '')}%` }, type: QueryTypes.SELECT },
+    );
+
+  it('keeps each log in partitions of its own, replaced whole by a re-read and dropped with the log', async () => {
+    const { bytes, log: written } = logCsvFor(rx, { noiseCv: 0.03 }, { seed: 61 });
+    const { log } = await uploadLog(w.callers.agronomist, rx, bytes);
     const done = await settled(w.callers.agronomist, log.id);
     expect(done.status).toBe('ready');
-    expect(await pointCount(log.id)).toBe(done.pointsRead);
+    const hex = log.id.replace(/-/g, '');
+    expect((await tables(log.id)).map((r) => [r.relname, r.parent])).toEqual([
+      [`as_applied_cells_${hex}`, 'as_applied_cells'],
+      [`as_applied_points_${hex}`, 'as_applied_points'],
+    ]);
+    const before = await pointCount(log.id);
+    expect(before).toBe(done.pointsRead);
+
+    // Read again with another band: the same points, once, in a partition of the same name; no table left over.
+    await readAgain(done, 0.1);
+    expect(await pointCount(log.id)).toBe(before);
+    expect((await tables(log.id)).map((r) => r.relname)).toEqual([
+      `as_applied_cells_${hex}`,
+      `as_applied_points_${hex}`,
+    ]);
+    // The stored points are where the file put them: the first row's position, as written (rounded to the
+    // file's decimals), to 1e-7 degree (about 1 cm).
+    const [row] = await t.sequelize.query<{ lon: number; lat: number; seq: number }>(
+      `SELECT ST_X(geom) AS lon, ST_Y(geom) AS lat, seq FROM as_applied_points WHERE log_id = :id ORDER BY seq LIMIT 1`,
+      { replacements: { id: log.id }, type: QueryTypes.SELECT },
+    );
+    expect(row.seq).toBe(0);
+    expect(row.lon).toBeCloseTo(written.lon[0], 7);
+    expect(row.lat).toBeCloseTo(written.lat[0], 7);
+
+    const removed = await del(w.callers.agronomist, `/api/logs/${log.id}`);
+    expect(removed.status).toBe(204);
+    expect(await tables(log.id)).toEqual([]);
+    expect(await pointCount(log.id)).toBe(0);
   });
 });
 
