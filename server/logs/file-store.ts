@@ -1,7 +1,11 @@
 import { createHash, randomUUID } from 'node:crypto';
 import { createReadStream } from 'node:fs';
 import { mkdir, open, readFile, rename, rm, stat } from 'node:fs/promises';
+import type { Readable } from 'node:stream';
 import path from 'node:path';
+
+/** An upload streamed to a temporary file (`FileStore.receive`), not yet at its content address. */
+export type ReceivedFile = { tmp: string; sha256: string; sizeBytes: number; head: Uint8Array };
 
 /**
  * Log files kept as sent, on disk, named by their SHA-256 (so the same bytes are stored once and a name
@@ -37,6 +41,59 @@ export class FileStore {
       await rename(tmp, target);
     }
     return { sha256, sizeBytes: bytes.byteLength };
+  }
+
+  /**
+   * Streams an upload to a temporary file while hashing it, so a large log never sits in memory; keeps its
+   * first `headBytes` (the header and sample rows) in memory. The file is flushed to disk before it answers.
+   */
+  async receive(stream: Readable, headBytes = 256 * 1024): Promise<ReceivedFile> {
+    const dir = path.join(this.dir, 'log-files', 'incoming');
+    await mkdir(dir, { recursive: true });
+    const tmp = path.join(dir, `${randomUUID()}.tmp`);
+    const hash = createHash('sha256');
+    const head = new Uint8Array(headBytes);
+    let headLength = 0;
+    let sizeBytes = 0;
+    const fh = await open(tmp, 'w');
+    try {
+      for await (const chunk of stream as AsyncIterable<Buffer>) {
+        hash.update(chunk);
+        if (headLength < headBytes) {
+          const take = chunk.subarray(0, headBytes - headLength);
+          head.set(take, headLength);
+          headLength += take.length;
+        }
+        sizeBytes += chunk.length;
+        await fh.write(chunk);
+      }
+      await fh.sync();
+    } catch (err) {
+      await fh.close().catch(() => {});
+      await rm(tmp, { force: true });
+      throw err;
+    }
+    await fh.close();
+    return { tmp, sha256: hash.digest('hex'), sizeBytes, head: head.subarray(0, headLength) };
+  }
+
+  /** Moves a received file to its content address; the same bytes already kept make it go away instead. */
+  async adopt(file: ReceivedFile): Promise<{ sha256: string; sizeBytes: number }> {
+    const target = this.pathOf(file.sha256);
+    await mkdir(path.dirname(target), { recursive: true });
+    const exists = await stat(target).then(
+      (s) => s.size === file.sizeBytes,
+      () => false,
+    );
+    if (exists) await rm(file.tmp, { force: true });
+    else await rename(file.tmp, target);
+    return { sha256: file.sha256, sizeBytes: file.sizeBytes };
+  }
+
+  /** Drops a received file that was not adopted (a refused upload). */
+  async discard(tmp: string) {
+    if (path.dirname(tmp) !== path.join(this.dir, 'log-files', 'incoming')) return;
+    await rm(tmp, { force: true });
   }
 
   read(sha256: string): Promise<Buffer> {

@@ -7,7 +7,7 @@ import { actorOf, handle } from '../../middleware/handle';
 import { requireRole, requireSignIn } from '../../middleware/authenticate';
 import { DomainError, ValidationError } from '../../errors';
 import type { Mailer } from '../../mail/mailer';
-import type { FileStore } from '../../logs/file-store';
+import type { FileStore, ReceivedFile } from '../../logs/file-store';
 import { FileReadError } from '../imports/import-errors';
 import { importErrors } from '../imports/import.router';
 import { unitSystemOf } from '../prescriptions/prescription.dto';
@@ -18,21 +18,40 @@ import * as audits from './audit.service';
 import { logTile } from './log-tiles';
 import { auditNotifier } from './log.mail';
 
-/** Multipart with one log file held in memory, never more than the limit (413 beyond it). */
-const upload: RequestHandler = (req, res, next) => {
-  multer({
-    storage: multer.memoryStorage(),
-    limits: { fileSize: logs.MAX_LOG_BYTES, files: 1, fields: 4, fieldSize: 256, parts: 6 },
-  }).single('file')(req, res, (err: unknown) => {
-    if (!err) return next();
-    if (err instanceof multer.MulterError && err.code === 'LIMIT_FILE_SIZE') {
-      return next(
-        new FileReadError(`The log is larger than ${logs.MAX_LOG_BYTES / 1024 / 1024} MB`, 'too_large'),
-      );
-    }
-    next(new DomainError('validation_failed', `The upload was refused: ${(err as Error).message}`));
-  });
-};
+/**
+ * Multipart with one log file streamed to disk while it is hashed (never held whole in memory), never more
+ * than the limit (413 beyond it). `req.file` then carries the `ReceivedFile` of `FileStore.receive`.
+ */
+const uploadTo =
+  (files: FileStore): RequestHandler =>
+  (req, res, next) => {
+    const storage: multer.StorageEngine = {
+      _handleFile(_req, file, cb) {
+        files.receive(file.stream).then(
+          (received) => cb(null, { ...received, path: received.tmp, size: received.sizeBytes }),
+          (err: Error) => cb(err),
+        );
+      },
+      _removeFile(_req, file, cb) {
+        files.discard(file.path).then(
+          () => cb(null),
+          (err: Error) => cb(err),
+        );
+      },
+    };
+    multer({
+      storage,
+      limits: { fileSize: logs.MAX_LOG_BYTES, files: 1, fields: 4, fieldSize: 256, parts: 6 },
+    }).single('file')(req, res, (err: unknown) => {
+      if (!err) return next();
+      if (err instanceof multer.MulterError && err.code === 'LIMIT_FILE_SIZE') {
+        return next(
+          new FileReadError(`The log is larger than ${logs.MAX_LOG_BYTES / 1024 / 1024} MB`, 'too_large'),
+        );
+      }
+      next(new DomainError('validation_failed', `The upload was refused: ${(err as Error).message}`));
+    });
+  };
 
 const previewFieldsSchema = z.object({ prescriptionId: idSchema, planterId: idSchema.optional() });
 const listQuerySchema = z.object({
@@ -72,21 +91,27 @@ export function logRouter(deps: { files: FileStore; enqueue: logs.Enqueue; maile
   router.post(
     '/preview',
     uploaders,
-    upload,
+    uploadTo(deps.files),
     handle({}, async ({ req }) => {
-      const fields = previewFieldsSchema.safeParse(req.body ?? {});
-      if (!fields.success)
-        throw new ValidationError('Choose the prescription the field was planted with', [
-          { path: ['prescriptionId'], message: 'Required' },
-        ]);
-      if (!req.file)
-        throw new ValidationError('Attach the log file', [{ path: ['file'], message: 'No file' }]);
-      return logs.previewLog(actorOf(req), deps.files, {
-        prescriptionId: fields.data.prescriptionId,
-        planterId: fields.data.planterId ?? null,
-        fileName: req.file.originalname,
-        bytes: new Uint8Array(req.file.buffer.buffer, req.file.buffer.byteOffset, req.file.buffer.byteLength),
-      });
+      const received = req.file as (Express.Multer.File & ReceivedFile) | undefined;
+      try {
+        const fields = previewFieldsSchema.safeParse(req.body ?? {});
+        if (!fields.success)
+          throw new ValidationError('Choose the prescription the field was planted with', [
+            { path: ['prescriptionId'], message: 'Required' },
+          ]);
+        if (!received)
+          throw new ValidationError('Attach the log file', [{ path: ['file'], message: 'No file' }]);
+        return await logs.previewLog(actorOf(req), deps.files, {
+          prescriptionId: fields.data.prescriptionId,
+          planterId: fields.data.planterId ?? null,
+          fileName: received.originalname,
+          file: received,
+        });
+      } finally {
+        // Adopted files have moved; anything else received for a refused upload goes.
+        if (received) await deps.files.discard(received.tmp);
+      }
     }),
   );
   router.post(

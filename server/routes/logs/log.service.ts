@@ -3,7 +3,8 @@ import type { z } from 'zod';
 import { Prescription } from '../../db/associations';
 import { ConflictError, NotFoundError, ValidationError } from '../../errors';
 import type { Actor } from '../../types';
-import type { FileStore } from '../../logs/file-store';
+import type { FileStore, ReceivedFile } from '../../logs/file-store';
+import { readFile } from 'node:fs/promises';
 import { FileReadError } from '../imports/import-errors';
 import { findPrescription } from '../prescriptions/prescription.dto';
 import { CROP_LABELS } from '../../../shared/schemas/crops';
@@ -89,16 +90,16 @@ async function rememberedMapping(planterId: string | null): Promise<ColumnMappin
 export async function previewLog(
   actor: Actor,
   files: FileStore,
-  input: { prescriptionId: string; planterId: string | null; fileName: string; bytes: Uint8Array },
+  input: { prescriptionId: string; planterId: string | null; fileName: string; file: ReceivedFile },
 ) {
   const rx = await plantedWith(actor, input.prescriptionId);
-  const format = formatOf(input.fileName, input.bytes);
+  const format = formatOf(input.fileName, input.file.head);
   const table =
     format === 'csv'
-      ? input.bytes.subarray(0, 256 * 1024)
-      : await pointsFileToCsv(input.bytes, input.fileName);
+      ? input.file.head
+      : await pointsFileToCsv(new Uint8Array(await readFile(input.file.tmp)), input.fileName);
   const header = readCsvHeader(table);
-  const { sha256, sizeBytes } = await files.put(input.bytes);
+  const { sha256, sizeBytes } = await files.adopt(input.file);
   const [file] = await db().query<{ id: string }>(
     `INSERT INTO log_files (workspace_id, field_id, original_name, format, size_bytes, sha256, created_by)
      VALUES (:ws, :fieldId, :name, :format, :size, :sha256, :userId)
