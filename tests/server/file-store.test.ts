@@ -24,7 +24,9 @@ const chunked = (bytes: Buffer, sizes: number[]) => {
 
 describe('streaming an upload to the file store', () => {
   const store = new FileStore(dir);
-  const bytes = Buffer.from(Array.from({ length: 5000 }, (_, i) => `${i},${(i * 0.37).toFixed(2)}\n`).join(''));
+  const bytes = Buffer.from(
+    Array.from({ length: 5000 }, (_, i) => `${i},${(i * 0.37).toFixed(2)}\n`).join(''),
+  );
   const sha256 = createHash('sha256').update(bytes).digest('hex');
 
   it('hashes, counts and keeps the head while writing; adopts the file at its content address', async () => {
