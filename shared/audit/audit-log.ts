@@ -60,12 +60,15 @@ export function pointAreas(
   const scale = localScale(c.lat);
   const dtMedian = medianStep(t, gap);
   const area = new Float64Array(n);
-  let prevSpeed = Number.NaN;
+  // The speed of the previous step is prevD ÷ prevDt, divided only where a pass end needs it.
+  let prevD = Number.NaN;
+  let prevDt = Number.NaN;
   for (let i = 0; i < n; i++) {
     const w = widthM && Number.isFinite(widthM[i]) ? Math.max(0, widthM[i]) : fallbackWidthM;
     let d = Number.NaN;
+    let dt = Number.NaN;
     if (i + 1 < n) {
-      const dt = t[i + 1] - t[i];
+      dt = t[i + 1] - t[i];
       if (dt > 0 && dt <= gap) {
         const step = pointDistanceM(c, scale, i, i + 1);
         if (step <= MAX_TRAVEL_MPS * dt) d = step;
@@ -73,11 +76,12 @@ export function pointAreas(
     }
     if (Number.isNaN(d)) {
       let v = loggedSpeedAt(c, i);
-      if (Number.isNaN(v)) v = prevSpeed;
+      if (Number.isNaN(v)) v = prevD / prevDt;
       d = Number.isFinite(v) ? v * dtMedian : 0;
-      prevSpeed = Number.NaN;
+      prevD = Number.NaN;
     } else {
-      prevSpeed = d / (t[i + 1] - t[i]);
+      prevD = d;
+      prevDt = dt;
     }
     area[i] = w * d;
   }
@@ -252,7 +256,14 @@ export function auditLog(input: AuditInput): AuditOutput {
     return code === UNKNOWN ? fallbackCode : code;
   };
   const areaBySource = new Float64Array(4);
-  for (let i = 0; i < n; i++) if (keep[i] && area[i] > 0) areaBySource[sourceOf(i)] += area[i];
+  if (speedSource) {
+    for (let i = 0; i < n; i++) if (keep[i] && area[i] > 0) areaBySource[sourceOf(i)] += area[i];
+  } else {
+    // Every point on the fallback: the same sum, in the same order, without a call per point.
+    let sum = 0;
+    for (let i = 0; i < n; i++) if (keep[i] && area[i] > 0) sum += area[i];
+    areaBySource[fallbackCode] = sum;
+  }
   const bothSpeeds = wheel !== null && gnss !== null;
   const correct = bothSpeeds && areaBySource[WHEEL] + areaBySource[RADAR] > 0;
   const trueApplied = correct ? new Float64Array(n).fill(Number.NaN) : null;

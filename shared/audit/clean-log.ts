@@ -41,14 +41,6 @@ export function pointDistanceM(c: LogColumns, scale: { lon: number; lat: number 
   return Math.sqrt(dx * dx + dy * dy);
 }
 
-/** Course over ground from point i to point j, degrees clockwise from north; NaN when they coincide. */
-function bearingDeg(c: LogColumns, scale: { lon: number; lat: number }, i: number, j: number) {
-  const dx = (c.lon[j] - c.lon[i]) * scale.lon;
-  const dy = (c.lat[j] - c.lat[i]) * scale.lat;
-  if (!(dx * dx + dy * dy > 1e-6)) return Number.NaN;
-  return (Math.atan2(dx, dy) * 180) / Math.PI;
-}
-
 /**
  * The ground speed the log gives at point i, m/s: GNSS speed (the true speed over ground), else the single
  * speed column, else wheel or radar speed; NaN when the log has none of them there.
@@ -110,13 +102,25 @@ export function cleaningSettingText(s: CleaningSettings, hasZones: boolean): Rec
   };
 }
 
-/** Indexes sorted by time with points lacking a time at the end. */
-function sortOrder(t: Float64Array): Uint32Array {
+/**
+ * Indexes sorted by time with points lacking a time at the end; null when the log is already in that order
+ * (every time a number, none smaller than the one before: the usual log, read without an index array).
+ */
+function sortOrder(t: Float64Array): Uint32Array | null {
+  let inOrder = true;
+  for (let i = 0; i < t.length; i++) {
+    if (Number.isNaN(t[i]) || (i > 0 && t[i] < t[i - 1])) {
+      inOrder = false;
+      break;
+    }
+  }
+  if (inOrder) return null;
   let hasNaN = false;
   for (let i = 0; i < t.length; i++) if (Number.isNaN(t[i])) hasNaN = true;
-  if (!hasNaN) return timeOrder(t);
-  const key = Float64Array.from(t, (v) => (Number.isNaN(v) ? Infinity : v));
-  return timeOrder(key);
+  const order = hasNaN
+    ? timeOrder(Float64Array.from(t, (v) => (Number.isNaN(v) ? Infinity : v)))
+    : timeOrder(t);
+  return isIdentity(order) ? null : order;
 }
 
 const isIdentity = (order: Uint32Array) => {
@@ -124,9 +128,16 @@ const isIdentity = (order: Uint32Array) => {
   return true;
 };
 
-/** Signed smallest difference of two headings, degrees in (−180, 180]. */
+/**
+ * Signed smallest difference of two headings, degrees in (−180, 180]: ((a − b) mod 360 + 540) mod 360 − 180,
+ * with the second remainder taken by subtraction (exact here: Sterbenz), so no fmod call for the usual case.
+ */
 function headingDiff(a: number, b: number): number {
-  const d = ((((a - b) % 360) + 540) % 360) - 180;
+  let x = a - b;
+  if (!(x > -360 && x < 360)) x %= 360;
+  let y = x + 540;
+  y = y >= 720 ? y - 720 : y >= 360 ? y - 360 : y;
+  const d = y - 180;
   return d === -180 ? 180 : d;
 }
 
@@ -143,80 +154,90 @@ function headingDiff(a: number, b: number): number {
  *    are seen on every timed point, planting or not: the controller follows the target all the time);
  * 6. plausibility: applied ÷ target outside [plausibleRatioMin, plausibleRatioMax], or not a number;
  * 7. boundary: zone === −2 (outside the field), when clipToBoundary and a zone array is given.
+ *
+ * The steps run in three passes over the points (1–3 with the turns of 4; the pass ends of 4; 5–7): a step
+ * only looks at points before the current one, or (the pass ends) at the points the steps before it kept.
  */
 export function cleanLog(c: LogColumns, settings: CleaningSettings, zone: Int16Array | null): CleanedLog {
   if (zone && zone.length !== c.n) {
     throw new RangeError(`The zone array has ${zone.length} entries for a log of ${c.n} points`);
   }
   const order = sortOrder(c.t);
-  const sorted = isIdentity(order);
-  const s = sorted ? c : selectColumns(c, order);
-  const z = zone ? (sorted ? zone : Int16Array.from(order, (i) => zone[i])) : null;
+  const s = order ? selectColumns(c, order) : c;
+  const z = zone ? (order ? Int16Array.from(order, (i) => zone[i]) : zone) : null;
   const n = s.n;
   const t = s.t;
   const removedBy = new Uint8Array(n);
   const scale = localScale(s.lat);
+  const { workOn, sectionsOn, gnssMps, speedMps, wheelMps, heading, lon, lat } = s;
+  const { minSpeedMps, maxSpeedMps, maxAccelMps2, passGapS, turnDegPerS } = settings;
 
-  // 1. Sort and drop repeated times.
+  // Steps 1–3, and the turns of step 4 over the points steps 1–3 keep (seq, in time order).
+  const seq = new Int32Array(n);
+  const turn = new Uint8Array(n); // per entry of seq: 1 a turn point
+  const newPass = new Uint8Array(n); // per entry of seq: 1 where a pass starts
+  let m = 0;
+  let prev = -1; // the previous point steps 1 and 2 kept (step 3 compares with it)
+  let vPrev = Number.NaN;
+  let hPrev = Number.NaN;
   for (let i = 0; i < n; i++) {
-    if (!Number.isFinite(t[i]) || (i > 0 && t[i] === t[i - 1])) removedBy[i] = SORT_DEDUPE;
-  }
-
-  // 2. Work off.
-  const { workOn, sectionsOn } = s;
-  if (workOn || sectionsOn) {
-    for (let i = 0; i < n; i++) {
-      if (removedBy[i]) continue;
-      if ((workOn && workOn[i] === 0) || (sectionsOn && sectionsOn[i] === 0)) removedBy[i] = WORK_OFF;
+    // 1. Sort and drop repeated times.
+    const ti = t[i];
+    if (!Number.isFinite(ti) || (i > 0 && ti === t[i - 1])) {
+      removedBy[i] = SORT_DEDUPE;
+      continue;
     }
-  }
-
-  // 3. Speed: range, then acceleration against the previous point the steps before kept.
-  {
-    let prev = -1;
-    let vPrev = Number.NaN;
-    for (let i = 0; i < n; i++) {
-      if (removedBy[i]) continue;
-      let v = loggedSpeedAt(s, i);
-      const dt = prev >= 0 ? t[i] - t[prev] : Number.NaN;
-      if (Number.isNaN(v) && prev >= 0) v = pointDistanceM(s, scale, prev, i) / dt;
-      if (v < settings.minSpeedMps || v > settings.maxSpeedMps) {
-        removedBy[i] = SPEED;
-      } else if (dt > 0 && Math.abs(v - vPrev) / dt > settings.maxAccelMps2) {
-        removedBy[i] = SPEED;
-      }
-      prev = i;
-      vPrev = v;
+    // 2. Work off.
+    if ((workOn && workOn[i] === 0) || (sectionsOn && sectionsOn[i] === 0)) {
+      removedBy[i] = WORK_OFF;
+      continue;
     }
-  }
-
-  // 4. Pass ends and turns.
-  {
-    const seq = new Int32Array(n);
-    let m = 0;
-    for (let i = 0; i < n; i++) if (!removedBy[i]) seq[m++] = i;
-    const turn = new Uint8Array(m);
-    const newPass = new Uint8Array(m); // 1 where a pass starts at seq[q]
-    let hPrev = Number.NaN;
-    for (let q = 0; q < m; q++) {
-      const i = seq[q];
-      let h = s.heading ? s.heading[i] : Number.NaN;
-      if (q === 0) {
-        newPass[q] = 1;
-        hPrev = h;
-        continue;
+    // 3. Speed: range, then acceleration against the previous point the steps before kept (loggedSpeedAt).
+    let v = gnssMps ? gnssMps[i] : Number.NaN;
+    if (!Number.isFinite(v)) {
+      v = speedMps ? speedMps[i] : Number.NaN;
+      if (!Number.isFinite(v)) {
+        v = wheelMps ? wheelMps[i] : Number.NaN;
+        if (!Number.isFinite(v)) v = Number.NaN;
       }
-      const p = seq[q - 1];
-      const dt = t[i] - t[p];
-      if (dt > settings.passGapS) {
-        newPass[q] = 1;
-        hPrev = h; // the logged heading, never a course across the gap
-        continue;
-      }
-      if (Number.isNaN(h)) h = bearingDeg(s, scale, p, i);
-      if (Math.abs(headingDiff(h, hPrev)) / dt > settings.turnDegPerS) turn[q] = 1;
+    }
+    const dt = prev >= 0 ? ti - t[prev] : Number.NaN;
+    if (Number.isNaN(v) && prev >= 0) v = pointDistanceM(s, scale, prev, i) / dt;
+    const fast = v < minSpeedMps || v > maxSpeedMps || (dt > 0 && Math.abs(v - vPrev) / dt > maxAccelMps2);
+    prev = i;
+    vPrev = v;
+    if (fast) {
+      removedBy[i] = SPEED;
+      continue;
+    }
+    // 4. Turns, and where a pass starts (a gap), against the previous point steps 1–3 kept.
+    const q = m++;
+    seq[q] = i;
+    let h = heading ? heading[i] : Number.NaN;
+    if (q === 0) {
+      newPass[q] = 1;
       hPrev = h;
+      continue;
     }
+    const p = seq[q - 1];
+    const dtq = ti - t[p];
+    if (dtq > passGapS) {
+      newPass[q] = 1;
+      hPrev = h; // the logged heading, never a course across the gap
+      continue;
+    }
+    if (Number.isNaN(h)) {
+      // bearingDeg(p, i), inline.
+      const dx = (lon[i] - lon[p]) * scale.lon;
+      const dy = (lat[i] - lat[p]) * scale.lat;
+      h = dx * dx + dy * dy > 1e-6 ? (Math.atan2(dx, dy) * 180) / Math.PI : Number.NaN;
+    }
+    if (Math.abs(headingDiff(h, hPrev)) / dtq > turnDegPerS) turn[q] = 1;
+    hPrev = h;
+  }
+
+  // 4. Pass ends: turn points, and the first and last seconds of each pass.
+  {
     let q = 0;
     while (q < m) {
       if (turn[q]) {
@@ -239,35 +260,32 @@ export function cleanLog(c: LogColumns, settings: CleaningSettings, zone: Int16A
     }
   }
 
-  // 5. Window after each change of target.
-  if (settings.afterTargetChangeS > 0) {
-    let last = Number.NaN;
-    let changedAt = -Infinity;
-    for (let i = 0; i < n; i++) {
-      if (removedBy[i] === SORT_DEDUPE) continue;
-      const v = s.target[i];
+  // 5. Window after each change of target; 6. plausibility of applied ÷ target; 7. outside the boundary.
+  const { target, applied } = s;
+  const afterChange = settings.afterTargetChangeS;
+  const { plausibleRatioMin, plausibleRatioMax } = settings;
+  const clip = z !== null && settings.clipToBoundary;
+  let last = Number.NaN;
+  let changedAt = -Infinity;
+  for (let i = 0; i < n; i++) {
+    let r = removedBy[i];
+    if (r === SORT_DEDUPE) continue;
+    if (afterChange > 0) {
+      const v = target[i];
       if (Number.isFinite(v)) {
         if (Number.isFinite(last) && Math.abs(v - last) > 1e-9 * Math.max(Math.abs(v), Math.abs(last))) {
           changedAt = t[i];
         }
         last = v;
       }
-      if (!removedBy[i] && t[i] - changedAt < settings.afterTargetChangeS) removedBy[i] = TARGET_CHANGE;
+      if (!r && t[i] - changedAt < afterChange) r = TARGET_CHANGE;
     }
-  }
-
-  // 6. Plausibility of applied ÷ target.
-  for (let i = 0; i < n; i++) {
-    if (removedBy[i]) continue;
-    const r = s.applied[i] / s.target[i];
-    if (!(r >= settings.plausibleRatioMin && r <= settings.plausibleRatioMax)) {
-      removedBy[i] = PLAUSIBILITY;
+    if (!r) {
+      const ratio = applied[i] / target[i];
+      if (!(ratio >= plausibleRatioMin && ratio <= plausibleRatioMax)) r = PLAUSIBILITY;
+      else if (clip && z[i] === OUTSIDE) r = BOUNDARY;
     }
-  }
-
-  // 7. Outside the boundary.
-  if (z && settings.clipToBoundary) {
-    for (let i = 0; i < n; i++) if (!removedBy[i] && z[i] === OUTSIDE) removedBy[i] = BOUNDARY;
+    removedBy[i] = r;
   }
 
   const keep = new Uint8Array(n);

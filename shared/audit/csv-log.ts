@@ -881,7 +881,7 @@ const grown = (c: LogColumns, cap: number) =>
 const shrink = (c: LogColumns, n: number) =>
   mapArrays(c, n, (a) => (a.length === n ? a : (a.slice(0, n) as typeof a)));
 
-/** Reads field `col` of point `n` from [p, end); returns the end of the field or −1. */
+/** Reads field `col` of point `n` from [p, end) (a number before its unit's factor); returns the end of the field or −1. */
 function readField(
   b: Uint8Array,
   p: number,
@@ -895,8 +895,9 @@ function readField(
   const k = plan.kind[col];
   let q: number;
   if (k === K_NUMBER) {
+    // The number as written: parseLogCsv applies the unit's factor per column once the lines are read.
     q = readNumber(b, p, end, delim, decimalComma);
-    if (q >= 0) plan.num[col][n] = (value * plan.mul[col]) / plan.div[col];
+    if (q >= 0) plan.num[col][n] = value;
     return q;
   }
   if (k === K_SKIP) return fieldEnd(b, p, end, delim);
@@ -953,6 +954,111 @@ function readTextField(
 }
 
 /**
+ * LF bytes from `start` to the end, or a few more: four bytes at a time (a byte is flagged when it is LF, or,
+ * rarely, when it is 0x0B just above an LF), for a capacity that is never too small.
+ */
+function countLineBreaks(b: Uint8Array, start: number): number {
+  let count = 0;
+  let i = start;
+  while (i < b.length && (b.byteOffset + i) % 4 !== 0) if (b[i++] === LF) count++;
+  const words = new Uint32Array(b.buffer, b.byteOffset + i, (b.length - i) >> 2);
+  for (let k = 0; k < words.length; k++) {
+    const x = words[k] ^ 0x0a0a0a0a;
+    const t = (x - 0x01010101) & ~x & 0x80808080;
+    if (t !== 0)
+      count += (t & 0x80 ? 1 : 0) + (t & 0x8000 ? 1 : 0) + (t & 0x800000 ? 1 : 0) + (t & 0x80000000 ? 1 : 0);
+  }
+  for (i += words.length * 4; i < b.length; i++) if (b[i] === LF) count++;
+  return count;
+}
+
+/** What the hot loop reads with (one object, so the loop's arguments stay few). */
+class FastRow {
+  /** The index of the last column. */
+  readonly last: number;
+  constructor(
+    public plan: Plan,
+    readonly delim: number,
+    readonly decimalComma: boolean,
+    readonly len: number,
+  ) {
+    this.last = plan.kind.length - 1;
+  }
+}
+
+/**
+ * The hot loop: the line at p into point n, or −1 when it is not a plain line. Only for a line that ends
+ * with an LF, so no byte is compared with the end of the file (every scan stops at that LF at the latest).
+ * A number is read as readNumber does, the digits into an integer mantissa and one division by a power of
+ * ten, stored before its unit's factor; what readNumber would do otherwise (an exponent, more than 15
+ * digits, no digits at all) makes the line −1, and so do a quote, a field that does not read and a line
+ * with too few fields: the field-by-field path then reads the line again, with the same result or message.
+ */
+function fastLine(b: Uint8Array, p: number, n: number, f: FastRow): number {
+  const { kind, num } = f.plan;
+  const delim = f.delim;
+  const decimalComma = f.decimalComma;
+  const spaceTab = delim !== TAB;
+  const last = f.last;
+  for (let col = 0; ; col++) {
+    const k = kind[col];
+    let c = b[p];
+    if (k === K_NUMBER) {
+      while (c === SPACE || (c === TAB && spaceTab)) c = b[++p];
+      if (c === delim || c === LF || c === CR) {
+        num[col][n] = Number.NaN;
+      } else {
+        let neg = false;
+        if (c === 45 || c === 43) {
+          neg = c === 45;
+          c = b[++p];
+        }
+        let mant = 0;
+        const intStart = p;
+        while (c >= 48 && c <= 57) {
+          mant = mant * 10 + (c - 48);
+          c = b[++p];
+        }
+        let digits = p - intStart;
+        let exp = 0;
+        if (c === 46 || (c === COMMA && decimalComma)) {
+          const fracStart = ++p;
+          c = b[p];
+          while (c >= 48 && c <= 57) {
+            mant = mant * 10 + (c - 48);
+            c = b[++p];
+          }
+          digits += p - fracStart;
+          exp = fracStart - p;
+        }
+        if (digits === 0 || c === 101 || c === 69 || mant > Number.MAX_SAFE_INTEGER || exp < -22) return -1;
+        while (c === SPACE || (c === TAB && spaceTab)) c = b[++p];
+        if (c !== delim && c !== LF && c !== CR) return -1;
+        const v = exp === 0 ? mant : mant / POW10[-exp];
+        num[col][n] = neg ? -v : v;
+      }
+    } else if (k === K_SKIP) {
+      while (c !== delim && c !== LF && c !== CR) {
+        if (c === QUOTE) return -1;
+        c = b[++p];
+      }
+    } else {
+      p = readField(b, p, f.len, delim, decimalComma, f.plan, col, n);
+      if (p < 0) return -1;
+      c = b[p];
+    }
+    if (col === last) {
+      // Extra fields (a trailing separator, say) are passed over, as in parseLogCsv.
+      while (c !== LF && c !== QUOTE && c !== CR) c = b[++p];
+      if (c === CR) c = b[++p];
+      return c === LF ? p + 1 : -1;
+    }
+    if (c !== delim) return -1;
+    p++;
+  }
+}
+
+/**
  * Parses a CSV log with a column mapping into typed columns in SI (rates via rateToSi, speeds m/s, widths
  * m, time seconds since the epoch). Blank lines are skipped, and so are points whose time, longitude or
  * latitude is empty (`skipped` counts them, with the first few line numbers); other empty values become NaN
@@ -974,13 +1080,9 @@ export function parseLogCsv(
   const delim = delimiter.charCodeAt(0);
   const decimalComma = delimiter === ';';
 
-  // Sized from the lines in the first MiB (a file's lines are much alike), grown by half when it runs out.
-  const probeEnd = Math.min(len, header.dataStart + (1 << 20));
-  let probeLines = 1;
-  for (let i = b.indexOf(LF, header.dataStart); i >= 0 && i < probeEnd; i = b.indexOf(LF, i + 1))
-    probeLines++;
-  let cap =
-    Math.ceil(((len - header.dataStart) / Math.max(1, probeEnd - header.dataStart)) * probeLines * 1.02) + 64;
+  // Sized by the lines below the header (a point takes at least one), so the columns are usually returned
+  // without a copy; grown by half should it ever run out.
+  let cap = countLineBreaks(b, header.dataStart) + (len > header.dataStart && b[len - 1] !== LF ? 1 : 0);
   let out = allocate(mapping, cap);
   let plan = makePlan(mapping, columns, out);
   let tCol = out.t;
@@ -1000,18 +1102,39 @@ export function parseLogCsv(
   const tooLong = (line: number) =>
     new LogParseError(line, null, `the line is longer than ${groupDigits(maxLineBytes)} bytes`);
 
+  // Lines ending before the last LF are tried by the hot loop first (fastLine); anything it does not read
+  // goes through the field-by-field path below, which gives the same values and the messages.
+  const safeEnd = b.lastIndexOf(LF) + 1;
+  const fast = new FastRow(plan, delim, decimalComma, len);
+
   let n = 0;
   let line = header.dataLine;
   let p = header.dataStart;
   while (p < len) {
     const lineStart = p;
     if ((line & 0xffff) === 0) opts.onProgress?.(p / len);
-    if (n === cap) grow();
+    if (n === cap) {
+      grow();
+      fast.plan = plan;
+    }
     let c = b[p];
     if (c === LF || (c === CR && (p + 1 === len || b[p + 1] === LF))) {
       p += c === CR ? 2 : 1; // a blank line
       line++;
       continue;
+    }
+    if (p < safeEnd) {
+      const q = fastLine(b, p, n, fast);
+      if (q >= 0) {
+        if (q - lineStart > maxLineBytes + 1) throw tooLong(line);
+        p = q;
+        if (Number.isNaN(tCol[n]) || Number.isNaN(lonCol[n]) || Number.isNaN(latCol[n])) {
+          skipped.count++;
+          if (skipped.lines.length < 5) skipped.lines.push(line);
+        } else n++;
+        line++;
+        continue;
+      }
     }
     // The fast path: field by field over the bytes. `fail` says why it stopped: 1 a field did not read,
     // 2 the line ended early, 3 something odd after the last column.
@@ -1072,6 +1195,14 @@ export function parseLogCsv(
       if (skipped.lines.length < 5) skipped.lines.push(line);
     } else n++;
     line++;
+  }
+  // The units' factors, one column at a time (value × mul ÷ div: the same arithmetic as shared/units.ts).
+  for (let k = 0; k < columns.length; k++) {
+    const mul = plan.mul[k];
+    const div = plan.div[k];
+    if (plan.kind[k] !== K_NUMBER || (mul === 1 && div === 1)) continue;
+    const a = plan.num[k];
+    for (let i = 0; i < n; i++) a[i] = (a[i] * mul) / div;
   }
   opts.onProgress?.(1);
   return { ...shrink(out, n), skipped };

@@ -253,3 +253,41 @@ describe('cleanLog on a synthetic log', () => {
     expect(offTarget(DEFAULTS)).toBe(0);
   });
 });
+
+describe('cleanLog: turns by heading', () => {
+  /** 1 Hz, 2.5 m/s northward, with the logged headings given (degrees). */
+  const northward = (headings: number[]): LogColumns => {
+    const n = headings.length;
+    const c = emptyColumns(n, { heading: true, gnssMps: true });
+    for (let i = 0; i < n; i++) {
+      c.t[i] = T0 + i;
+      c.lon[i] = LON0;
+      c.lat[i] = LAT0 + (2.5 * i) / M.lat;
+      c.heading![i] = headings[i];
+      c.gnssMps![i] = 2.5;
+      c.target[i] = perAcToPerM2(32_000);
+      c.applied[i] = perAcToPerM2(32_000);
+    }
+    return c;
+  };
+  const settings = { ...DEFAULTS, trimPassStartS: 0, trimPassEndS: 0, afterTargetChangeS: 0 };
+  const passEnds = (headings: number[]) => {
+    const r = cleanLog(northward(headings), settings, null);
+    const code = CLEANING_STEPS.indexOf('pass-ends') + 1;
+    return [...r.removedBy].flatMap((b, i) => (b === code ? [i] : []));
+  };
+
+  it('takes the short way round through north, and either sign of a full turn (DOMAIN: a turn is the heading changing faster than turnDegPerS)', () => {
+    // 359° → 1° → 359° … is 2° a second, not 358°: nothing goes.
+    expect(passEnds([359, 1, 359, 1, 359, 1, 359, 1])).toEqual([]);
+    // The same heading written as −360°, 0° or 720° is no change at all.
+    expect(passEnds([10, -350, 370, 730, -710, 10, 10, 10])).toEqual([]);
+    // 90° in one second (faster than the default 20°/s) is a turn, clockwise or not, across north or not.
+    expect(passEnds([0, 0, 90, 90, 90, 90, 90, 90])).toEqual([2]);
+    expect(passEnds([350, 350, 260, 260, 260, 260, 260, 260])).toEqual([2]);
+    expect(passEnds([300, 300, 30, 30, 30, 30, 30, 30])).toEqual([2]);
+    // 19° a second stays under the setting; 21° a second is over it at every step.
+    expect(passEnds([0, 19, 38, 57, 76, 95])).toEqual([]);
+    expect(passEnds([350, 11, 32, 53, 74, 95])).toEqual([1, 2, 3, 4, 5]);
+  });
+});

@@ -10,7 +10,8 @@ import {
   type LogCsvUnits,
 } from '../../shared/audit/csv-log';
 import { SPEED_SOURCE_CODE, type LogColumns } from '../../shared/audit/log-columns';
-import { RATE_UNITS } from '../../shared/rates/rate-units';
+import { RATE_UNITS, rateToSi } from '../../shared/rates/rate-units';
+import { mphToMps } from '../../shared/units';
 import {
   ROW_VALUE_KINDS,
   columnMappingSchema,
@@ -394,6 +395,44 @@ describe('parseLogCsv: fixtures and SI', () => {
     );
     expect(c.n).toBe(2);
     for (const a of [c.t, c.lon, c.lat, c.target, c.applied]) expect(a.length).toBe(2);
+  });
+
+  it('reads a line the same on the fast path and through papaparse, in any unit (quotes send a line to papaparse)', () => {
+    const m = basic('seeds/ha', 'epoch-ms');
+    m.fields.speed = { column: 'speed', unit: 'mph' };
+    const head = 'time,lon,lat,target_rate,applied_rate,speed,note\n';
+    const rows = [
+      '1760000000123,-93.600123456,42.000987654,80000,79876.5,5.25,x',
+      '1760000000223, -93.6 ,42,,-0,0.1,y',
+      '1760000000323,-93.600123456,42.000987654,1.5e4,007,4.,z',
+    ];
+    const plain = parseLogCsv(bytes(head + rows.join('\n') + '\n'), m);
+    const quoted = parseLogCsv(bytes(head + rows.map((r) => r.replace(/,(\w)$/, ',"$1"')).join('\n')), m);
+    expect(quoted).toEqual(plain);
+    expect(plain.n).toBe(3);
+    // shared/units.ts and rate-units.ts: ms ÷ 1000, mph × 0.44704, seeds/ha ÷ 10 000.
+    expect(plain.t[0]).toBe(1760000000123 / 1000);
+    expect(plain.speedMps![0]).toBe(mphToMps(5.25));
+    expect(plain.target[0]).toBe(rateToSi(80000, 'seeds/ha'));
+    expect(plain.applied[0]).toBe(rateToSi(79876.5, 'seeds/ha'));
+    expect(Object.is(plain.applied[1], -0)).toBe(true);
+    expect(plain.target[1]).toBeNaN();
+    expect(plain.target[2]).toBe(rateToSi(15000, 'seeds/ha'));
+  });
+
+  it('reads a file wherever it starts in its buffer (the line count reads four bytes at a time)', () => {
+    const text = bytes(
+      'time,lon,lat,target_rate,applied_rate\n1,2,3,4,5\n2,2,3,4,5\n\n3,2,3,4,5\n4,2,3,4,5\n5,2,3,4,5\n6,2,3,4,5',
+    );
+    const expected = parseLogCsv(text, basic());
+    expect(expected.n).toBe(6);
+    for (let offset = 1; offset < 8; offset++) {
+      const buffer = new Uint8Array(text.length + 8);
+      buffer.set(text, offset);
+      const c = parseLogCsv(buffer.subarray(offset, offset + text.length), basic());
+      expect(c).toEqual(expected);
+      expect(c.t.length).toBe(6);
+    }
   });
 
   it('reports progress as a growing fraction ending at 1', () => {
