@@ -21,18 +21,20 @@ const EPS_S = 1e-6;
 export function typicalStepS(t: Float64Array, keep: Uint8Array, gap: number): number {
   const stride = Math.max(1, Math.floor(t.length / 20_000));
   const steps: number[] = [];
-  let prev = -1;
-  for (let i = 0; i < t.length; i++) {
+  // Only every stride-th point is sampled, each with the usable point before it (kept, with a finite time):
+  // found by looking back, so the points between samples are not walked one by one.
+  for (let i = stride; i < t.length; i += stride) {
     if (!keep[i] || !Number.isFinite(t[i])) continue;
-    if (prev >= 0 && i % stride === 0) {
-      const dt = t[i] - t[prev];
-      if (dt > 0 && dt <= gap) steps.push(dt);
-    }
-    prev = i;
+    let prev = i - 1;
+    while (prev >= 0 && !(keep[prev] && Number.isFinite(t[prev]))) prev--;
+    if (prev < 0) continue;
+    const dt = t[i] - t[prev];
+    if (dt > 0 && dt <= gap) steps.push(dt);
   }
   if (steps.length === 0) return 1;
-  steps.sort((a, b) => a - b);
-  return steps[steps.length >> 1];
+  // The steps are finite: the typed array's numeric sort orders them as a comparator would.
+  const sorted = Float64Array.from(steps).sort();
+  return sorted[sorted.length >> 1];
 }
 
 /**

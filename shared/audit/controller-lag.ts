@@ -31,17 +31,26 @@ export function quantileSorted(sorted: ArrayLike<number>, q: number): number {
   return sorted[lo] + (h - lo) * (sorted[hi] - sorted[lo]);
 }
 
-/** Median applied rate over seq[a…b] from time `since` on (NaN when none). */
+/** Scratch space for {@link levelOf}, grown on demand. */
+let levelValues = new Float64Array(256);
+
+/**
+ * Median applied rate over seq[a…b] from time `since` on (NaN when none). The values are finite, so the typed
+ * array's own numeric sort orders them as a comparator would, without a call per comparison.
+ */
 function levelOf(c: LogColumns, seq: Int32Array, a: number, b: number, since: number): number {
-  const values: number[] = [];
+  let k = 0;
   for (let q = b; q >= a && c.t[seq[q]] >= since; q--) {
     const v = c.applied[seq[q]];
-    if (Number.isFinite(v)) values.push(v);
+    if (!Number.isFinite(v)) continue;
+    if (k === levelValues.length) {
+      const grown = new Float64Array(2 * k);
+      grown.set(levelValues);
+      levelValues = grown;
+    }
+    levelValues[k++] = v;
   }
-  return quantileSorted(
-    values.sort((x, y) => x - y),
-    0.5,
-  );
+  return quantileSorted(levelValues.subarray(0, k).sort(), 0.5);
 }
 
 const sameLevel = (a: number, b: number) => Math.abs(a - b) <= 1e-9 * Math.max(Math.abs(a), Math.abs(b));

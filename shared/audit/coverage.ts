@@ -5,6 +5,7 @@ import { bboxOf } from '../geo/polygon-clip';
 import { countSections, minRowsPerSection } from '../rates/count-sections';
 import type { Coverage } from '../schemas/as-applied.schema';
 import { AREA_PASS_GAP_S } from './audit-log';
+import { hypot } from './diag-hypot';
 import type { LogColumns } from './log-columns';
 
 /**
@@ -37,33 +38,40 @@ export type CoverageOptions = {
   passGapS?: number;
 };
 
-/** Called with the cells [c0, c1] of grid row `row` under a rectangle; returning false stops the scan. */
-type RowSpan = (row: number, c0: number, c1: number) => boolean | void;
-
-/** Corner scratch space for {@link scanRect} (not re-entrant: no span calls it). */
+/**
+ * Row spans of one rectangle, filled by {@link rectSpans}: for span s, grid row SPAN_ROW[s] and its cells
+ * SPAN_C0[s] … SPAN_C1[s]. Module scratch space grown on demand (not re-entrant): one rectangle's spans are
+ * computed once and then read by both the as-logged count and the section model, without a closure per row.
+ */
+let SPAN_ROW = new Int32Array(64);
+let SPAN_C0 = new Int32Array(64);
+let SPAN_C1 = new Int32Array(64);
+/** Corner scratch space for {@link rectSpans}. */
 const PX = new Float64Array(4);
 const PY = new Float64Array(4);
 
 /**
- * Calls `span` for the cells of each grid row whose centres lie in the rectangle of half-width `h` around the
- * segment (x0, y0) → (x1, y1), all in cell units. Half-open on both axes (the rule of cellsInside), so two
- * rectangles sharing an edge never both take a cell on it.
+ * Fills the span scratch with the cells of each grid row whose centres lie in the rectangle of half-width `h`
+ * around the segment (x0, y0) → (x1, y1), all in cell units, and returns how many spans (rows with at least one
+ * cell) there are. `len` is the segment's length (Math.hypot of its sides). Half-open on both axes (the rule of
+ * cellsInside), so two rectangles sharing an edge never both take a cell on it.
  */
-function scanRect(
+function rectSpans(
   g: GridFrame,
   x0: number,
   y0: number,
   x1: number,
   y1: number,
+  len: number,
   h: number,
-  span: RowSpan,
-): void {
+): number {
+  if (!(len > 1e-9) || !(h > 0)) return 0;
   const dx = x1 - x0;
   const dy = y1 - y0;
-  const len = Math.hypot(dx, dy);
-  if (!(len > 1e-9) || !(h > 0)) return;
   const nx = (-dy / len) * h;
   const ny = (dx / len) * h;
+  // The corners 0…3; the edges j → i (3→0, 0→1, 1→2, 2→3) are interpolated from corner j, as a polygon
+  // scanline does: the same arithmetic whichever row asks, so neighbouring rectangles agree on shared edges.
   PX[0] = x0 + nx;
   PX[1] = x1 + nx;
   PX[2] = x1 - nx;
@@ -72,10 +80,24 @@ function scanRect(
   PY[1] = y1 + ny;
   PY[2] = y1 - ny;
   PY[3] = y0 - ny;
+  // A step of a 10 Hz log is a fraction of a cell long: travelling along the rows, most rectangles hold no
+  // column of cell centres (half-integers) between their corners' x. No row can then have a cell, so the rows
+  // need no scan. The slack (far above the rounding of the interpolations below) keeps the test one-sided.
+  const minX = Math.min(PX[0], PX[1], PX[2], PX[3]);
+  const maxX = Math.max(PX[0], PX[1], PX[2], PX[3]);
+  const slack = 1e-7 * (1 + Math.abs(minX) + Math.abs(maxX));
+  if (Math.ceil(minX - 0.5 - slack) > Math.ceil(maxX - 0.5 + slack) - 1) return 0;
   const minY = Math.min(PY[0], PY[1], PY[2], PY[3]);
   const maxY = Math.max(PY[0], PY[1], PY[2], PY[3]);
   const r0 = Math.max(0, Math.ceil(minY - 0.5));
   const r1 = Math.min(g.rows - 1, Math.ceil(maxY - 0.5) - 1);
+  if (r1 - r0 + 1 > SPAN_ROW.length) {
+    const size = 2 * (r1 - r0 + 1);
+    SPAN_ROW = new Int32Array(size);
+    SPAN_C0 = new Int32Array(size);
+    SPAN_C1 = new Int32Array(size);
+  }
+  let m = 0;
   for (let r = r0; r <= r1; r++) {
     const y = r + 0.5;
     let xa = Infinity;
@@ -90,34 +112,114 @@ function scanRect(
     if (!(xb > xa)) continue;
     const c0 = Math.max(0, Math.ceil(xa - 0.5));
     const c1 = Math.min(g.cols - 1, Math.ceil(xb - 0.5) - 1);
-    if (c1 >= c0 && span(r, c0, c1) === false) return;
+    if (c1 < c0) continue;
+    SPAN_ROW[m] = r;
+    SPAN_C0[m] = c0;
+    SPAN_C1[m] = c1;
+    m++;
   }
+  return m;
 }
 
-/** Standard base64 (RFC 4648) of bytes, without Buffer or btoa (isomorphic). */
+/** The base64 alphabet as character codes. */
+const B64 = new TextEncoder().encode('ABCDEFGHIJKLMNOPQRSTUVWXYZabcdefghijklmnopqrstuvwxyz0123456789+/');
+
+/**
+ * Standard base64 (RFC 4648) of bytes, without Buffer or btoa (isomorphic). The characters are written as ASCII
+ * codes into one buffer and decoded once, instead of concatenating a million short strings.
+ */
 function base64(bytes: Uint8Array): string {
-  const abc = 'ABCDEFGHIJKLMNOPQRSTUVWXYZabcdefghijklmnopqrstuvwxyz0123456789+/';
-  const parts: string[] = [];
-  let s = '';
+  const out = new Uint8Array(Math.ceil(bytes.length / 3) * 4);
   let i = 0;
+  let o = 0;
   for (; i + 2 < bytes.length; i += 3) {
     const v = (bytes[i] << 16) | (bytes[i + 1] << 8) | bytes[i + 2];
-    s += abc[v >> 18] + abc[(v >> 12) & 63] + abc[(v >> 6) & 63] + abc[v & 63];
-    if (s.length >= 1 << 16) {
-      parts.push(s);
-      s = '';
-    }
+    out[o++] = B64[v >> 18];
+    out[o++] = B64[(v >> 12) & 63];
+    out[o++] = B64[(v >> 6) & 63];
+    out[o++] = B64[v & 63];
   }
   const rest = bytes.length - i;
-  if (rest === 1) {
-    const v = bytes[i] << 16;
-    s += abc[v >> 18] + abc[(v >> 12) & 63] + '==';
-  } else if (rest === 2) {
-    const v = (bytes[i] << 16) | (bytes[i + 1] << 8);
-    s += abc[v >> 18] + abc[(v >> 12) & 63] + abc[(v >> 6) & 63] + '=';
+  if (rest > 0) {
+    const v = (bytes[i] << 16) | (rest === 2 ? bytes[i + 1] << 8 : 0);
+    out[o++] = B64[v >> 18];
+    out[o++] = B64[(v >> 12) & 63];
+    out[o++] = rest === 2 ? B64[(v >> 6) & 63] : 61; // '='
+    out[o++] = 61;
   }
-  parts.push(s);
-  return parts.join('');
+  return new TextDecoder().decode(out);
+}
+
+/** One step of a pass: from kept point k (index into the log) to the next, in cell units, ends lengthened. */
+type StepFn = (first: boolean, k: number, x0: number, y0: number, x1: number, y1: number) => void;
+
+/**
+ * Calls `step` for every step of every pass in order (the passes as {@link coverageOf} describes them), with
+ * `first` true for the first step of a pass. Streamed over the log: a step is handed on once the point after
+ * it shows whether the pass goes on, as the last step is lengthened; positions are converted as they are read
+ * instead of into arrays as long as the log.
+ */
+function walkSteps(
+  c: LogColumns,
+  keep: Uint8Array,
+  g: GridFrame,
+  gap: number,
+  maxStepCells: number,
+  step: StepFn,
+): void {
+  const { lon, lat, t } = c;
+  const { originLon, originLat, lonStep, latStep } = g;
+  // The open pass's last point b and the one before it, a (−1: none); whether a is the pass's first point.
+  let bi = -1;
+  let bx = 0;
+  let by = 0;
+  let ai = -1;
+  let ax = 0;
+  let ay = 0;
+  let aFirst = false;
+  const emit = (last: boolean) => {
+    let x0 = ax;
+    let y0 = ay;
+    let x1 = bx;
+    let y1 = by;
+    const hx = (x1 - x0) / 2;
+    const hy = (y1 - y0) / 2;
+    if (aFirst) {
+      x0 -= hx;
+      y0 -= hy;
+    }
+    if (last) {
+      x1 += hx;
+      y1 += hy;
+    }
+    step(aFirst, ai, x0, y0, x1, y1);
+  };
+  let prev = -1; // the kept point before, finite or not
+  for (let i = 0; i < c.n; i++) {
+    if (!keep[i]) continue;
+    const p = prev;
+    prev = i;
+    const x = (lon[i] - originLon) / lonStep;
+    const y = (lat[i] - originLat) / latStep;
+    // A point without a position joins no pass, and the point after it cannot join its pass either.
+    if (!(Number.isFinite(x) && Number.isFinite(y))) continue;
+    const dt = p >= 0 ? t[i] - t[p] : Number.NaN;
+    if (bi >= 0 && p === bi && dt > 0 && dt <= gap && hypot(x - bx, y - by) <= maxStepCells * dt) {
+      if (ai >= 0) emit(false);
+      aFirst = ai < 0;
+    } else {
+      if (ai >= 0) emit(true);
+      bi = -1;
+    }
+    // Shift: b becomes a (within the pass), the point b; a new pass starts with b alone.
+    ai = bi;
+    ax = bx;
+    ay = by;
+    bi = i;
+    bx = x;
+    by = y;
+  }
+  if (ai >= 0) emit(true);
 }
 
 /**
@@ -195,90 +297,95 @@ export function coverageOf(
   const cellArea = cellM * cellM;
   const inside = cellsInside(frame, boundary);
 
-  /* ---------------------------------------------------------------- passes (ranges of kept points) */
-  let kept = 0;
-  for (let i = 0; i < n; i++) if (keep[i]) kept++;
-  const idx = new Uint32Array(kept);
-  for (let i = 0, k = 0; i < n; i++) if (keep[i]) idx[k++] = i;
-  const X = new Float64Array(kept);
-  const Y = new Float64Array(kept);
-  for (let k = 0; k < kept; k++) {
-    X[k] = (c.lon[idx[k]] - west) / frame.lonStep;
-    Y[k] = (c.lat[idx[k]] - south) / frame.latStep;
-  }
-  const maxStepCells = MAX_TRAVEL_MPS / cellM;
-  const passStarts: number[] = [];
-  for (let k = 0; k < kept; k++) {
-    if (!(Number.isFinite(X[k]) && Number.isFinite(Y[k]))) continue;
-    const p = k - 1;
-    const dt = p >= 0 ? c.t[idx[k]] - c.t[idx[p]] : Number.NaN;
-    const joined =
-      p >= 0 &&
-      passStarts.length > 0 &&
-      dt > 0 &&
-      dt <= gap &&
-      Math.hypot(X[k] - X[p], Y[k] - Y[p]) <= maxStepCells * dt;
-    if (!joined) passStarts.push(k);
-  }
-  passStarts.push(kept);
-  const widthAt = (k: number) => {
-    const w = c.widthM ? c.widthM[idx[k]] : Number.NaN;
-    return Number.isFinite(w) ? Math.max(0, w) : opts.swathFallbackM;
-  };
-  const targetAt = (k: number) => {
-    const v = target[idx[k]];
-    return Number.isFinite(v) ? v : 0;
-  };
+  /* ---------------------------------------------------------------- the section model's layout */
+  const layout = sectionLayout(c, opts);
+  const sectionCells = layout ? (layout.advised * opts.rowSpacingM) / cellM : 0;
 
-  /**
-   * Every step of every pass, in order: `step(pass, k, x0, y0, x1, y1)` with the step from kept point k to k + 1
-   * (the ends lengthened by half a step). A pass ends where a non-finite position or a gap breaks it.
+  /*
+   * One walk over every step of every pass paints both rasters: the counts as logged and, when the section
+   * model applies, the re-painted counts. The two only share the steps' geometry (each keeps its own counts
+   * and pass tags), so painting them step by step together gives what two walks would, with each step's
+   * rectangle scanned once instead of three times.
+   *
+   * Pass tags mark the cells a pass has painted, so it counts a cell once. Any tag unique among the passes
+   * since the last clearing will do: 16 bits, both tag rasters cleared when the tags run out.
    */
-  const eachStep = (
-    step: (pass: number, k: number, x0: number, y0: number, x1: number, y1: number) => void,
-  ) => {
-    for (let p = 0; p + 1 < passStarts.length; p++) {
-      const a = passStarts[p];
-      let b = passStarts[p + 1];
-      while (b > a && !(Number.isFinite(X[b - 1]) && Number.isFinite(Y[b - 1]))) b--;
-      for (let k = a; k + 1 < b; k++) {
-        let x0 = X[k];
-        let y0 = Y[k];
-        let x1 = X[k + 1];
-        let y1 = Y[k + 1];
-        const hx = (x1 - x0) / 2;
-        const hy = (y1 - y0) / 2;
-        if (k === a) {
-          x0 -= hx;
-          y0 -= hy;
-        }
-        if (k + 2 === b) {
-          x1 += hx;
-          y1 += hy;
-        }
-        step(p + 1, k, x0, y0, x1, y1);
-      }
-    }
-  };
-
-  /* ---------------------------------------------------------------- as logged */
   const counts = new Uint8Array(cells);
-  const stamp = new Int32Array(cells);
+  const stamp = new Uint16Array(cells);
+  const sim = layout ? new Uint8Array(cells) : null;
+  const simStamp = layout ? new Uint16Array(cells) : null;
+  let pass = 0;
+  let needed = new Uint8Array(16);
   let quantityInOverlap = 0;
-  eachStep((pass, k, x0, y0, x1, y1) => {
-    const t = targetAt(k) * cellArea;
-    scanRect(frame, x0, y0, x1, y1, widthAt(k) / 2 / cellM, (r, c0, c1) => {
-      for (let i = r * cols + c0, end = r * cols + c1; i <= end; i++) {
+  const width = c.widthM;
+  const fallbackM = opts.swathFallbackM;
+  walkSteps(c, keep, frame, gap, MAX_TRAVEL_MPS / cellM, (first, k, x0, y0, x1, y1) => {
+    if (first && ++pass > 0xffff) {
+      stamp.fill(0);
+      simStamp?.fill(0);
+      pass = 1;
+    }
+    const dx = x1 - x0;
+    const dy = y1 - y0;
+    const len = hypot(dx, dy);
+    const logged = width ? width[k] : Number.NaN;
+    const widthM = Number.isFinite(logged) ? Math.max(0, logged) : fallbackM;
+    const spans = rectSpans(frame, x0, y0, x1, y1, len, widthM / 2 / cellM);
+    if (spans === 0) return;
+
+    // As logged: a cell counts once per pass; a field cell painted by an earlier pass adds to the overlap.
+    const tg = target[k];
+    const t = (Number.isFinite(tg) ? tg : 0) * cellArea;
+    for (let s = 0; s < spans; s++) {
+      for (let i = SPAN_ROW[s] * cols + SPAN_C0[s], end = SPAN_ROW[s] * cols + SPAN_C1[s]; i <= end; i++) {
         if (stamp[i] === pass) continue;
         stamp[i] = pass;
         if (inside[i] && counts[i] > 0) quantityInOverlap += t;
         if (counts[i] < MAX_COUNT) counts[i]++;
       }
-    });
+    }
+
+    if (!sim || !simStamp) return;
+    // Re-painted: the step's swath cut across into sections, numbered from its right-hand edge by a cell
+    // centre's offset along the unit normal (ux, uy) to the left of travel, in cells.
+    const w = widthM / cellM;
+    const half = w / 2;
+    const ux = -dy / len;
+    const uy = dx / len;
+    const count = Math.max(1, Math.round(w / sectionCells));
+    const sw = w / count;
+    if (needed.length < count) needed = new Uint8Array(count);
+    needed.fill(0, 0, count);
+    // A section stays on when a field cell of its footprint was not planted by an earlier pass.
+    let anyNeeded = false;
+    for (let s = 0; s < spans; s++) {
+      const row = SPAN_ROW[s];
+      const along = (row + 0.5 - y0) * uy;
+      for (let col = SPAN_C0[s], i = row * cols + col; col <= SPAN_C1[s]; col++, i++) {
+        if (!inside[i] || sim[i] - (simStamp[i] === pass ? 1 : 0) >= 1) continue;
+        const q = Math.floor(((col + 0.5 - x0) * ux + along + half) / sw);
+        needed[q < 0 ? 0 : q >= count ? count - 1 : q] = 1;
+        anyNeeded = true;
+      }
+    }
+    if (!anyNeeded) return;
+    for (let s = 0; s < spans; s++) {
+      const row = SPAN_ROW[s];
+      const along = (row + 0.5 - y0) * uy;
+      for (let col = SPAN_C0[s], i = row * cols + col; col <= SPAN_C1[s]; col++, i++) {
+        if (simStamp[i] === pass) continue;
+        const q = Math.floor(((col + 0.5 - x0) * ux + along + half) / sw);
+        if (!needed[q < 0 ? 0 : q >= count ? count - 1 : q]) continue;
+        simStamp[i] = pass;
+        if (sim[i] < MAX_COUNT) sim[i]++;
+      }
+    }
   });
+
   let fieldCells = 0;
   let skippedCells = 0;
   let doubleCells = 0;
+  let simDouble = 0;
   for (let i = 0; i < cells; i++) {
     if (!inside[i]) {
       counts[i] = OUTSIDE;
@@ -287,6 +394,7 @@ export function coverageOf(
     fieldCells++;
     if (counts[i] === 0) skippedCells++;
     else if (counts[i] >= 2) doubleCells++;
+    if (sim && sim[i] >= 2) simDouble++;
   }
   const doubleM2 = doubleCells * cellArea;
 
@@ -306,68 +414,23 @@ export function coverageOf(
       rows,
       countsBase64: base64(counts),
     },
-    sectionAdvice: sectionAdvice(),
-  };
-
-  /** The section-control model described above; null when it does not apply. */
-  function sectionAdvice(): Coverage['sectionAdvice'] {
-    const { rowSpacingM, rowCount, rowsPerSection: r, displaySectionLimit } = opts;
-    const known = r !== null && Number.isInteger(r) && r >= 1;
-    if (!c.sectionsOn && !known) return null;
-    if (!(rowSpacingM > 0) || !Number.isInteger(rowCount) || rowCount < 1) return null;
-    if (!Number.isInteger(displaySectionLimit) || displaySectionLimit < 1) return null;
-    const finest = minRowsPerSection(rowCount, displaySectionLimit);
-    const advised = known && finest >= r ? 1 : finest;
-    const sectionM = advised * rowSpacingM;
-    const sim = new Uint8Array(cells);
-    const simStamp = new Int32Array(cells);
-    let pass = 0;
-    // The step being re-painted: its start, unit normal (to the left of travel), width and sections, in cells.
-    let x0 = 0;
-    let y0 = 0;
-    let ux = 0;
-    let uy = 0;
-    let half = 0;
-    let sw = 1;
-    let count = 1;
-    let needed = new Uint8Array(16);
-    /** The section of a cell centre: by its offset across the step, from the right-hand edge. */
-    const sectionOf = (row: number, col: number) => {
-      const s = Math.floor(((col + 0.5 - x0) * ux + (row + 0.5 - y0) * uy + half) / sw);
-      return s < 0 ? 0 : s >= count ? count - 1 : s;
-    };
-    // A section stays on when a field cell of its footprint was not planted by an earlier pass.
-    const check: RowSpan = (row, c0, c1) => {
-      for (let col = c0, i = row * cols + c0; col <= c1; col++, i++)
-        if (inside[i] && sim[i] - (simStamp[i] === pass ? 1 : 0) < 1) needed[sectionOf(row, col)] = 1;
-    };
-    const paint: RowSpan = (row, c0, c1) => {
-      for (let col = c0, i = row * cols + c0; col <= c1; col++, i++) {
-        if (simStamp[i] === pass || !needed[sectionOf(row, col)]) continue;
-        simStamp[i] = pass;
-        if (sim[i] < MAX_COUNT) sim[i]++;
-      }
-    };
-    eachStep((p, k, ax, ay, bx, by) => {
-      const w = widthAt(k) / cellM;
-      const len = Math.hypot(bx - ax, by - ay);
-      if (!(w > 0) || !(len > 1e-9)) return;
-      pass = p;
-      [x0, y0, ux, uy, half] = [ax, ay, -(by - ay) / len, (bx - ax) / len, w / 2];
-      count = Math.max(1, Math.round(w / (sectionM / cellM)));
-      sw = w / count;
-      if (needed.length < count) needed = new Uint8Array(count);
-      needed.fill(0, 0, count);
-      scanRect(frame, ax, ay, bx, by, half, check);
-      if (needed.subarray(0, count).includes(1)) scanRect(frame, ax, ay, bx, by, half, paint);
-    });
-    let simDouble = 0;
-    for (let i = 0; i < cells; i++) if (inside[i] && sim[i] >= 2) simDouble++;
-    return {
-      rowsPerSection: advised,
-      sections: countSections(rowCount, advised),
+    sectionAdvice: layout && {
+      rowsPerSection: layout.advised,
+      sections: countSections(opts.rowCount, layout.advised),
       overlapCutM2: Math.max(0, doubleM2 - simDouble * cellArea),
-      withinDisplayLimit: countSections(rowCount, advised) <= displaySectionLimit,
-    };
-  }
+      withinDisplayLimit: countSections(opts.rowCount, layout.advised) <= opts.displaySectionLimit,
+    },
+  };
 }
+
+/** The rows per section the section model advises (described at {@link coverageOf}); null when it does not apply. */
+function sectionLayout(c: LogColumns, opts: CoverageOptions): { advised: number } | null {
+  const { rowSpacingM, rowCount, rowsPerSection: r, displaySectionLimit } = opts;
+  const known = r !== null && Number.isInteger(r) && r >= 1;
+  if (!c.sectionsOn && !known) return null;
+  if (!(rowSpacingM > 0) || !Number.isInteger(rowCount) || rowCount < 1) return null;
+  if (!Number.isInteger(displaySectionLimit) || displaySectionLimit < 1) return null;
+  const finest = minRowsPerSection(rowCount, displaySectionLimit);
+  return { advised: known && finest >= r ? 1 : finest };
+}
+

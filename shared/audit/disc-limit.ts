@@ -44,14 +44,17 @@ export function discLimitShortfall(
     throw new RangeError(`The band must be a fraction between 0 and 1, got ${bandFraction}`);
   }
 
-  // Groups 0…G−1 the zones, G the default rate. Pass 1: sums and counts; pass 2: the speeds, grouped.
+  // Groups 0…G−1 the zones, G the default rate. One pass: sums and counts per group, and the points that fell
+  // short (group and speed, in point order; usually few, so no arrays as long as the log). Then the speeds
+  // are gathered by group, in point order.
   const G = zones.length;
-  const groupOf = new Int32Array(n).fill(-1);
   const sumArea = new Float64Array(G + 1);
   const sumShort = new Float64Array(G + 1);
   const sumTarget = new Float64Array(G + 1);
   const count = new Int32Array(G + 1);
-  const speed = new Float64Array(n);
+  let hitGroup = new Int32Array(1024);
+  let hitSpeed = new Float64Array(1024);
+  let hits = 0;
   const { target, applied } = c;
   const keepShare = 1 - bandFraction / 2;
   for (let i = 0; i < n; i++) {
@@ -63,8 +66,15 @@ export function discLimitShortfall(
     const v = loggedSpeedAt(c, i);
     if (!(v > 0) || !(discRpmFor(tg, rowSpacingM, v, holes) > discRpmMax)) continue;
     const g = z === -1 ? G : z;
-    groupOf[i] = g;
-    speed[i] = v;
+    if (hits === hitGroup.length) {
+      const group = new Int32Array(2 * hits);
+      const speed = new Float64Array(2 * hits);
+      group.set(hitGroup);
+      speed.set(hitSpeed);
+      [hitGroup, hitSpeed] = [group, speed];
+    }
+    hitGroup[hits] = g;
+    hitSpeed[hits++] = v;
     const a = area[i];
     sumArea[g] += a;
     sumShort[g] += (a * (tg - ap)) / tg;
@@ -75,7 +85,7 @@ export function discLimitShortfall(
   for (let g = 0; g <= G; g++) offset[g + 1] = offset[g] + count[g];
   const speeds = new Float64Array(offset[G + 1]);
   const fill = offset.slice(0, G + 1);
-  for (let i = 0; i < n; i++) if (groupOf[i] >= 0) speeds[fill[groupOf[i]]++] = speed[i];
+  for (let h = 0; h < hits; h++) speeds[fill[hitGroup[h]]++] = hitSpeed[h];
 
   const out: DiscLimit['zones'] = [];
   for (let g = 0; g <= G; g++) {

@@ -39,6 +39,18 @@ export function kachmanSmith(
   spacings: ArrayLike<number>,
   xRef: number,
 ): { multiples: number; misses: number; quality: number; precision: number } {
+  return kachmanSmithOf([spacings], null, xRef);
+}
+
+/**
+ * {@link kachmanSmith} over the spacings of several arrays one after the other (where `keep`, when given, is
+ * set: each array has one entry per point), so the rows of a log need not be copied into one array first.
+ */
+function kachmanSmithOf(
+  parts: ArrayLike<number>[],
+  keep: Uint8Array | null,
+  xRef: number,
+): { multiples: number; misses: number; quality: number; precision: number } {
   if (!(Number.isFinite(xRef) && xRef > 0))
     throw new RangeError(`The theoretical spacing xRef must be a positive number, got ${xRef}`);
   let n = 0;
@@ -48,19 +60,20 @@ export function kachmanSmith(
   let singles = 0;
   let mean = 0;
   let m2 = 0;
-  for (let i = 0; i < spacings.length; i++) {
-    const x = spacings[i];
-    if (!(Number.isFinite(x) && x >= 0)) continue;
-    n++;
-    if (x <= 0.5 * xRef) multiples++;
-    else if (x > 1.5 * xRef) misses++;
-    else {
-      singles++;
-      const d = x - mean;
-      mean += d / singles;
-      m2 += d * (x - mean);
+  for (const spacings of parts)
+    for (let i = 0; i < spacings.length; i++) {
+      const x = spacings[i];
+      if (!(Number.isFinite(x) && x >= 0) || (keep && !keep[i])) continue;
+      n++;
+      if (x <= 0.5 * xRef) multiples++;
+      else if (x > 1.5 * xRef) misses++;
+      else {
+        singles++;
+        const d = x - mean;
+        mean += d / singles;
+        m2 += d * (x - mean);
+      }
     }
-  }
   if (n === 0) throw new RangeError('There are no seed spacings (finite numbers ≥ 0) to assess');
   const D = (100 * multiples) / n;
   const M = (100 * misses) / n;
@@ -100,14 +113,16 @@ export function rowDiagnostics(
       if (values.length !== c.n)
         throw new RangeError(`Row ${row} (${kind}) has ${values.length} values for ${c.n} points`);
       const acc = sums.get(row) ?? { sum: 0, count: 0 };
+      // Summed in locals (the same additions in the same order), written back once per column.
+      let { sum, count } = acc;
       for (let i = 0; i < c.n; i++) {
         const v = values[i];
         if (keep[i] && Number.isFinite(v)) {
-          acc.sum += v;
-          acc.count++;
+          sum += v;
+          count++;
         }
       }
-      sums.set(row, acc);
+      sums.set(row, { sum, count });
     }
     const rows = [...sums]
       .filter(([, a]) => a.count > 0)
@@ -139,15 +154,82 @@ function uniformityOf(
   keep: Uint8Array,
   xRefM: number | undefined,
 ): RowDiagnostic['uniformity'] {
-  const all: number[] = [];
-  for (const { values } of columns)
-    for (let i = 0; i < values.length; i++) {
-      const v = values[i];
-      if (keep[i] && Number.isFinite(v) && v >= 0) all.push(v);
-    }
-  if (!all.length) return null;
-  const xRef = xRefM ?? median(all);
+  // Every kept spacing of every row: rows × points of them, read where they are (no copy into one array).
+  const parts = columns.map((r) => r.values);
+  const xRef = xRefM ?? medianSpacing(parts, keep);
+  if (Number.isNaN(xRef)) return null; // no spacings (or no median of none)
   if (!(xRef > 0)) return null;
-  const k = kachmanSmith(all, xRef);
+  if (xRefM !== undefined && countSpacings(parts, keep) === 0) return null;
+  const k = kachmanSmithOf(parts, keep, xRef);
   return Number.isNaN(k.precision) ? null : { xRef, ...k };
+}
+
+/** Whether value v at point i is a kept spacing (a finite number ≥ 0). */
+const isSpacing = (v: number, keep: Uint8Array, i: number) => keep[i] !== 0 && Number.isFinite(v) && v >= 0;
+
+function countSpacings(parts: Float64Array[], keep: Uint8Array): number {
+  let n = 0;
+  for (const values of parts) for (let i = 0; i < values.length; i++) if (isSpacing(values[i], keep, i)) n++;
+  return n;
+}
+
+/**
+ * The median of the kept spacings ({@link median} of them all: NaN when there are none), found by selection on
+ * their bits instead of a sort of millions: for numbers ≥ 0 the order of the IEEE 754 bit patterns (read as
+ * unsigned integers) is the numbers' order. A histogram of the top 16 bits finds the bucket of each middle
+ * value, a second one of the next 16 bits narrows it, and only the values sharing those 32 bits are sorted.
+ */
+function medianSpacing(parts: Float64Array[], keep: Uint8Array): number {
+  const f = new Float64Array(1);
+  const u = new Uint32Array(f.buffer);
+  const hiOf = (v: number) => {
+    f[0] = v + 0; // −0 as 0: equal in the numeric order, different in bits
+    return u[1];
+  };
+  /** The values whose high word passes `use`, counted by `bucket` of that word. */
+  const histogram = (use: (hi: number) => boolean, bucket: (hi: number) => number) => {
+    const h = new Float64Array(65_536);
+    for (const values of parts)
+      for (let i = 0; i < values.length; i++) {
+        const v = values[i];
+        if (!isSpacing(v, keep, i)) continue;
+        const hi = hiOf(v);
+        if (use(hi)) h[bucket(hi)]++;
+      }
+    return h;
+  };
+  /** The bucket holding rank r (0-based) of the counted values, and the count in the buckets before it. */
+  const find = (h: Float64Array, r: number) => {
+    let before = 0;
+    let b = 0;
+    while (before + h[b] <= r) before += h[b++];
+    return { b, before };
+  };
+  const top = histogram(
+    () => true,
+    (hi) => hi >>> 16,
+  );
+  const n = top.reduce((s, x) => s + x, 0);
+  if (n === 0) return Number.NaN;
+  const m = Math.floor(n / 2);
+  const ranks = n % 2 ? [m] : [m - 1, m];
+  // Each middle rank: narrow to the values sharing its top 32 bits, then sort those few.
+  const valueAt = (r: number) => {
+    const t = find(top, r);
+    const sub = histogram(
+      (hi) => hi >>> 16 === t.b,
+      (hi) => hi & 0xffff,
+    );
+    const s = find(sub, r - t.before);
+    const word = ((t.b << 16) | s.b) >>> 0;
+    const same: number[] = [];
+    for (const values of parts)
+      for (let i = 0; i < values.length; i++) {
+        const v = values[i];
+        if (isSpacing(v, keep, i) && hiOf(v) === word) same.push(v);
+      }
+    return Float64Array.from(same).sort()[r - t.before - s.before];
+  };
+  const values = ranks.map(valueAt);
+  return values.length === 1 ? values[0] : (values[0] + values[1]) / 2;
 }

@@ -30,6 +30,76 @@ export function tileXY(lon: number, lat: number, z: number): [number, number] {
   return [x, y];
 }
 
+/** Per cell: points, then Σ and count of target, applied, true applied and speed. */
+const SUMS = 9;
+
+/**
+ * Cells keyed by their grid coordinates (cx, cy), numbered in the order they first appear, with SUMS sums
+ * each: an open-addressing hash on two integers in flat typed arrays (a Map keyed by cx · side + cy, past the
+ * small-integer range, with an array per cell, cost most of the time of this step).
+ */
+class CellSums {
+  size = 0;
+  cx: Int32Array;
+  cy: Int32Array;
+  sums: Float64Array;
+  /** Hash slot → cell number + 1 (0: empty); kept at most half full. */
+  private slots: Int32Array;
+
+  constructor(expected: number) {
+    const capacity = Math.max(16, expected);
+    this.cx = new Int32Array(capacity);
+    this.cy = new Int32Array(capacity);
+    this.sums = new Float64Array(capacity * SUMS);
+    this.slots = new Int32Array(2 ** Math.ceil(Math.log2(2 * capacity)));
+  }
+
+  /** The slot where cell (cx, cy) is or would go. */
+  private slotOf(cx: number, cy: number): number {
+    const mask = this.slots.length - 1;
+    let h = (Math.imul(cx, 0x9e3779b1) ^ Math.imul(cy + 0x632be5ab, 0x85ebca77)) >>> 0;
+    h = (h ^ (h >>> 15)) & mask;
+    for (;;) {
+      const k = this.slots[h] - 1;
+      if (k < 0 || (this.cx[k] === cx && this.cy[k] === cy)) return h;
+      h = (h + 1) & mask;
+    }
+  }
+
+  /** The number of cell (cx, cy), or −1 when it is not there yet. */
+  find(cx: number, cy: number): number {
+    return this.slots[this.slotOf(cx, cy)] - 1;
+  }
+
+  /** Adds cell (cx, cy), which is not there yet, with all sums 0; returns its number. */
+  add(cx: number, cy: number): number {
+    if (2 * (this.size + 1) > this.slots.length) this.grow();
+    const k = this.size++;
+    if (k >= this.cx.length) {
+      const cap = 2 * this.cx.length;
+      const grown = (a: Int32Array) => {
+        const b = new Int32Array(cap);
+        b.set(a);
+        return b;
+      };
+      this.cx = grown(this.cx);
+      this.cy = grown(this.cy);
+      const sums = new Float64Array(cap * SUMS);
+      sums.set(this.sums);
+      this.sums = sums;
+    }
+    this.cx[k] = cx;
+    this.cy[k] = cy;
+    this.slots[this.slotOf(cx, cy)] = k + 1;
+    return k;
+  }
+
+  private grow() {
+    this.slots = new Int32Array(2 * this.slots.length);
+    for (let k = 0; k < this.size; k++) this.slots[this.slotOf(this.cx[k], this.cy[k])] = k + 1;
+  }
+}
+
 /**
  * The kept points averaged onto a grid of CELLS_PER_TILE × CELLS_PER_TILE cells per tile, at each of
  * CELL_ZOOMS: what a map at those zooms can show at all (a cell is two screen pixels), computed once at
@@ -41,62 +111,80 @@ export function tileCells(c: LogColumns, keep: Uint8Array, trueApplied: Float64A
   const top = CELL_ZOOMS[CELL_ZOOMS.length - 1];
   const side = 2 ** top * CELLS_PER_TILE;
   // One pass over the points at the deepest zoom (sums and counts per cell), then each shallower zoom by
-  // merging the cells of the one below: a cell at zoom z − 1 is four cells at zoom z.
-  type Acc = number[]; // cx, cy, n, Σtarget, ntarget, Σapplied, napplied, Σtrue, ntrue, Σspeed, nspeed
-  let level = new Map<number, Acc>();
+  // merging the cells of the one below: a cell at zoom z − 1 is four cells at zoom z. Cells are listed in the
+  // order they first appear, and the sums added in point order (then child order), at every zoom.
+  // About one cell per eight points to start with (a 10 Hz log moves about a cell in that time); it grows.
+  let level = new CellSums(c.n >> 3);
   const k = side / 360;
   const ky = side / (4 * Math.PI);
   const ta = trueApplied;
+  const { lon, lat, target, applied } = c;
+  // Consecutive points mostly share a cell (a 10 Hz log moves a fraction of a cell a point): the last one found.
+  let lastX = -1;
+  let lastY = -1;
+  let cell = -1;
+  // The row of the last latitude: a point at the same latitude as the one before (a pass along a parallel
+  // without position noise) skips the sine and the logarithm.
+  let lastLat = Number.NaN;
+  let cy = -1;
   for (let i = 0; i < c.n; i++) {
     if (!keep[i]) continue;
     // tileXY at the deepest zoom, scaled to cells, inlined (the hot loop of the import).
-    const sn = Math.sin((c.lat[i] * Math.PI) / 180);
-    const cx = Math.floor((c.lon[i] + 180) * k);
-    const cy = Math.floor(side / 2 - Math.log((1 + sn) / (1 - sn)) * ky);
+    const cx = Math.floor((lon[i] + 180) * k);
+    if (lat[i] !== lastLat) {
+      lastLat = lat[i];
+      const sn = Math.sin((lastLat * Math.PI) / 180);
+      cy = Math.floor(side / 2 - Math.log((1 + sn) / (1 - sn)) * ky);
+    }
     if (!(cx >= 0 && cy >= 0 && cx < side && cy < side)) continue;
-    const key = cx * side + cy;
-    let acc = level.get(key);
-    if (!acc) {
-      acc = [cx, cy, 0, 0, 0, 0, 0, 0, 0, 0, 0];
-      level.set(key, acc);
+    if (cx !== lastX || cy !== lastY) {
+      cell = level.find(cx, cy);
+      if (cell < 0) cell = level.add(cx, cy);
+      lastX = cx;
+      lastY = cy;
     }
-    acc[2]++;
-    const tg = c.target[i];
+    const acc = level.sums;
+    const o = cell * SUMS;
+    acc[o]++;
+    const tg = target[i];
     if (tg === tg) {
-      acc[3] += tg;
-      acc[4]++;
+      acc[o + 1] += tg;
+      acc[o + 2]++;
     }
-    const ap = c.applied[i];
+    const ap = applied[i];
     if (ap === ap) {
-      acc[5] += ap;
-      acc[6]++;
+      acc[o + 3] += ap;
+      acc[o + 4]++;
     }
     if (ta) {
       const tr = ta[i];
       if (tr === tr) {
-        acc[7] += tr;
-        acc[8]++;
+        acc[o + 5] += tr;
+        acc[o + 6]++;
       }
     }
     if (speed) {
       const sp = speed[i];
       if (sp === sp) {
-        acc[9] += sp;
-        acc[10]++;
+        acc[o + 7] += sp;
+        acc[o + 8]++;
       }
     }
   }
-  const levels: [number, Map<number, Acc>][] = [[top, level]];
+  const levels: [number, CellSums][] = [[top, level]];
   for (let z = top - 1; z >= CELL_ZOOMS[0]; z--) {
-    const next = new Map<number, Acc>();
-    const zSide = 2 ** z * CELLS_PER_TILE;
-    for (const a of level.values()) {
-      const cx = Math.floor(a[0] / 2);
-      const cy = Math.floor(a[1] / 2);
-      const key = cx * zSide + cy;
-      const b = next.get(key);
-      if (!b) next.set(key, [cx, cy, ...a.slice(2)]);
-      else for (let k = 2; k < a.length; k++) b[k] += a[k];
+    const next = new CellSums(level.size >> 1);
+    const from = level.sums;
+    for (let a = 0; a < level.size; a++) {
+      const cx = Math.floor(level.cx[a] / 2);
+      const cy = Math.floor(level.cy[a] / 2);
+      let b = next.find(cx, cy);
+      const fresh = b < 0;
+      if (fresh) b = next.add(cx, cy);
+      const to = next.sums;
+      // The first child's sums are copied, the others' added (in the order of the level below).
+      for (let j = 0; j < SUMS; j++)
+        to[b * SUMS + j] = fresh ? from[a * SUMS + j] : to[b * SUMS + j] + from[a * SUMS + j];
     }
     levels.push([z, next]);
     level = next;
@@ -118,18 +206,19 @@ export function tileCells(c: LogColumns, keep: Uint8Array, trueApplied: Float64A
   const mean = (s: number, k: number) => (k > 0 ? s / k : Number.NaN);
   let i = 0;
   for (const [z, m] of levels) {
-    for (const a of m.values()) {
+    const a = m.sums;
+    for (let j = 0; j < m.size; j++, i++) {
+      const o = j * SUMS;
       out.z[i] = z;
-      out.tx[i] = Math.floor(a[0] / CELLS_PER_TILE);
-      out.ty[i] = Math.floor(a[1] / CELLS_PER_TILE);
-      out.gx[i] = a[0] % CELLS_PER_TILE;
-      out.gy[i] = a[1] % CELLS_PER_TILE;
-      out.n[i] = a[2];
-      out.target[i] = mean(a[3], a[4]);
-      out.applied[i] = mean(a[5], a[6]);
-      out.appliedTrue[i] = mean(a[7], a[8]);
-      out.speed[i] = mean(a[9], a[10]);
-      i++;
+      out.tx[i] = Math.floor(m.cx[j] / CELLS_PER_TILE);
+      out.ty[i] = Math.floor(m.cy[j] / CELLS_PER_TILE);
+      out.gx[i] = m.cx[j] % CELLS_PER_TILE;
+      out.gy[i] = m.cy[j] % CELLS_PER_TILE;
+      out.n[i] = a[o];
+      out.target[i] = mean(a[o + 1], a[o + 2]);
+      out.applied[i] = mean(a[o + 3], a[o + 4]);
+      out.appliedTrue[i] = mean(a[o + 5], a[o + 6]);
+      out.speed[i] = mean(a[o + 7], a[o + 8]);
     }
   }
   return out;

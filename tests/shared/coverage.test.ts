@@ -136,6 +136,42 @@ describe('coverageOf on hand-built passes', () => {
     expect(coverageOf(c, keep, rect(100, 60), { ...HAND, rowsPerSection: null }).sectionAdvice).toBeNull();
   });
 
+  it('tells more passes apart than its 16-bit pass tags hold (65 536 passes)', () => {
+    // Two-point passes (x 5 → 15 m, 1 s apart, 10 s between passes) along two strips: the first and the last
+    // pass along y = 5 m, the 65 534 between along y = 15 m. The last pass is the 65 536th, past what 16 bits
+    // number, and must still count as a pass of its own over the first one's strip. By coverageOf's
+    // definition (derived): both strips double, and quantityInOverlap = (65 534 − 1) × the north strip's
+    // area × target + the south strip's area × target.
+    const passes = 65_536;
+    const c = emptyColumns(2 * passes);
+    for (let p = 0; p < passes; p++) {
+      const y = p === 0 || p === passes - 1 ? 5 : 15;
+      [c.lon[2 * p], c.lat[2 * p]] = offsetPosition(ORIGIN, 5, y);
+      [c.lon[2 * p + 1], c.lat[2 * p + 1]] = offsetPosition(ORIGIN, 15, y);
+      c.t[2 * p] = 1_800_000_000 + 10 * p;
+      c.t[2 * p + 1] = 1_800_000_001 + 10 * p;
+    }
+    c.target.fill(TARGET);
+    const opts = { ...HAND, swathFallbackM: 4 };
+    const field = rect(20, 20);
+    const only = (p: number) => {
+      const one = emptyColumns(2);
+      for (const k of [0, 1]) {
+        one.lon[k] = c.lon[2 * p + k];
+        one.lat[k] = c.lat[2 * p + k];
+        one.t[k] = c.t[2 * p + k];
+      }
+      one.target.fill(TARGET);
+      return coverageOf(one, new Uint8Array(2).fill(1), field, opts).plantedM2;
+    };
+    const [south, north] = [only(0), only(1)];
+    expect(south).toBeGreaterThan(0);
+    const all = coverageOf(c, new Uint8Array(c.n).fill(1), field, opts);
+    expect(all.plantedM2).toBe(south + north);
+    expect(all.doubleM2).toBe(south + north);
+    expect(all.quantityInOverlap).toBeCloseTo((passes - 3) * north * TARGET + south * TARGET, 6);
+  });
+
   it('leaves out what is not kept, and refuses bad input clearly', () => {
     const part = new Uint8Array(c.n).fill(1);
     part.fill(0, 2 * 49, 3 * 49); // the third pass (18–28 m) not kept: no overlap, 8 m more skipped

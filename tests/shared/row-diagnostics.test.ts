@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import type { MultiPolygon } from 'geojson';
 import { emptyColumns, type LogColumns } from '../../shared/audit/log-columns';
 import { kachmanSmith, rowDiagnostics } from '../../shared/audit/row-diagnostics';
-import { syntheticLog } from '../../shared/audit/synthetic-log';
+import { seededRandom, syntheticLog } from '../../shared/audit/synthetic-log';
 import { rowDiagnosticSchema } from '../../shared/schemas/as-applied.schema';
 import { ringFromOffsets } from '../../shared/geo/offset-position';
 
@@ -122,6 +122,30 @@ describe('rowDiagnostics', () => {
     const [byMedian] = rowDiagnostics(c, keep);
     // Sorted spacings 0.5 2.0 5.8 5.9 6.0 6.1 6.3 6.4 9.5 12.2: median (6.0 + 6.1) / 2 (derived).
     expect(byMedian.uniformity!.xRef).toBeCloseTo(6.05, 12);
+  });
+
+  it('spacing: xRef is the median of every kept spacing, as a full sort gives it, for many spacings', () => {
+    // Seeded spacings around 0.15 m in whole millimetres (so many are equal), some missing, negative or on
+    // points not kept; an odd and an even number of them. The median by definition: sort, take the middle.
+    const random = seededRandom(3);
+    for (const n of [20_001, 20_002]) {
+      const rows = [0, 1, 2].map(() =>
+        Array.from({ length: n }, (_, i) =>
+          i % 97 === 0 ? Number.NaN : i % 89 === 0 ? -1 : Math.round(150 + 60 * (random() - 0.5) ** 3 * 8) / 1000,
+        ),
+      );
+      const c = withRows('spacing', rows);
+      const keep = Uint8Array.from({ length: n }, (_, i) => (i % 5 === 0 ? 0 : 1));
+      const kept = rows.flatMap((r) => r.filter((v, i) => keep[i] && Number.isFinite(v) && v >= 0));
+      const sorted = [...kept].sort((a, b) => a - b);
+      const m = sorted.length >> 1;
+      const expected = sorted.length % 2 ? sorted[m] : (sorted[m - 1] + sorted[m]) / 2;
+      const [d] = rowDiagnostics(c, keep);
+      expect(d.uniformity!.xRef).toBe(expected);
+      // And the indices are those of the spacings gathered in row order.
+      const { xRef, ...indices } = d.uniformity!;
+      expect(indices).toEqual(kachmanSmith(kept, xRef));
+    }
   });
 
   it('one entry per kind present, none for a log without rows; clear errors for bad input', () => {
