@@ -1004,15 +1004,23 @@ function fastLine(b: Uint8Array, p: number, n: number, f: FastRow): number {
     const k = kind[col];
     let c = b[p];
     if (k === K_NUMBER) {
-      while (c === SPACE || (c === TAB && spaceTab)) c = b[++p];
-      if (c === delim || c === LF || c === CR) {
-        num[col][n] = Number.NaN;
-      } else {
-        let neg = false;
-        if (c === 45 || c === 43) {
+      // A digit or '-' first is the usual field; spaces, '+' and empty fields are looked at only otherwise.
+      let neg = false;
+      let empty = false;
+      if (c === 45) {
+        neg = true;
+        c = b[++p];
+      } else if (!(c >= 48 && c <= 57)) {
+        while (c === SPACE || (c === TAB && spaceTab)) c = b[++p];
+        if (c === delim || c === LF || c === CR) empty = true;
+        else if (c === 45 || c === 43) {
           neg = c === 45;
           c = b[++p];
         }
+      }
+      if (empty) {
+        num[col][n] = Number.NaN;
+      } else {
         let mant = 0;
         const intStart = p;
         while (c >= 48 && c <= 57) {
@@ -1031,9 +1039,12 @@ function fastLine(b: Uint8Array, p: number, n: number, f: FastRow): number {
           digits += p - fracStart;
           exp = fracStart - p;
         }
-        if (digits === 0 || c === 101 || c === 69 || mant > Number.MAX_SAFE_INTEGER || exp < -22) return -1;
-        while (c === SPACE || (c === TAB && spaceTab)) c = b[++p];
-        if (c !== delim && c !== LF && c !== CR) return -1;
+        if (digits === 0 || mant > Number.MAX_SAFE_INTEGER || exp < -22) return -1;
+        if (c !== delim) {
+          if (c === 101 || c === 69) return -1;
+          while (c === SPACE || (c === TAB && spaceTab)) c = b[++p];
+          if (c !== delim && c !== LF && c !== CR) return -1;
+        }
         const v = exp === 0 ? mant : mant / POW10[-exp];
         num[col][n] = neg ? -v : v;
       }
