@@ -1,7 +1,7 @@
 import type { LogColumns } from './log-columns';
 
 /** Zooms served from pre-averaged cells; deeper zooms are served from the points themselves. */
-export const CELL_ZOOMS = [12, 13, 14, 15, 16, 17] as const;
+export const CELL_ZOOMS = [12, 13, 14, 15, 16, 17, 18] as const;
 /** Cells per tile side (a 256-pixel tile: one cell every two pixels). */
 export const CELLS_PER_TILE = 128;
 /** Tile extent of the vector tiles (MVT default). */

@@ -15,7 +15,7 @@ describe('tile cells', () => {
 
   it('averages the kept points of a cell, at every zoom, leaving out removed points and missing values', () => {
     const c = emptyColumns(4, { gnssMps: true });
-    // Three points a few centimetres apart (one cell at every zoom up to 17) and one far away.
+    // Three points a few centimetres apart (one cell at every zoom up to 18) and one far away.
     const pts = [
       [-93.6, 42.0, 10, 11, 2],
       [-93.6000001, 42.0000001, 10, 13, Number.NaN],

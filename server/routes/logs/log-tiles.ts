@@ -16,7 +16,7 @@ async function hasCells(logId: string) {
 }
 
 /**
- * A tile at the middle zooms from the cells averaged at import (shared/audit/tile-cells.ts), already in tile
+ * A tile at zooms 12–18 from the cells averaged at import (shared/audit/tile-cells.ts), already in tile
  * coordinates: at most 128 × 128 points, read through an index.
  */
 async function cellTile(logId: string, z: number, x: number, y: number): Promise<Buffer> {
