@@ -103,14 +103,24 @@ export function replayAlarms(
     first = -1;
   };
 
-  // Walk the usable kept points; each is handled once its successor (and so its time step) is known.
-  let prev = -1;
-  let prevOut = 0; // 0 in band, +1 over, −1 under
-  const handle = (i: number, next: number) => {
-    const dtNext = next >= 0 ? t[next] - t[i] : Number.NaN;
+  // Walk the usable points (kept, with a positive target, a finite applied rate and a finite time) with one
+  // point of look-ahead: each is handled once its successor (and so its time step) is known. One loop with no
+  // call per point, as a log's replay runs once per import, mostly before the code is optimised.
+  const usable = (i: number) =>
+    keep[i] !== 0 && target[i] > 0 && Number.isFinite(applied[i]) && Number.isFinite(t[i]);
+  let i = 0;
+  while (i < n && !usable(i)) i++;
+  while (i < n) {
+    let next = i + 1;
+    while (next < n && !usable(next)) next++;
+    if (next < n && t[next] < t[i])
+      throw new RangeError(`The log must be sorted by time: point ${next} comes before point ${i}`);
+    const r = (applied[i] - target[i]) / target[i];
+    const out = r > band ? 1 : r < -band ? -1 : 0; // 0 in band, +1 over, −1 under
+    const dtNext = next < n ? t[next] - t[i] : Number.NaN;
     const joined = dtNext >= 0 && dtNext <= gap;
     const dt = joined ? dtNext : step;
-    if (prevOut !== 0) {
+    if (out !== 0) {
       if (first < 0) {
         first = i;
         start = t[i];
@@ -124,28 +134,13 @@ export function replayAlarms(
       const before = Math.min(dt, Math.max(0, start + delayS - t[i]));
       if (before > 0) unrepArea += dt > 0 ? (a * before) / dt : a;
       dur += dt;
-      signTime += prevOut * dt;
-    } else {
+      signTime += out * dt;
+    } else if (first >= 0) {
       close();
     }
-    if (!joined) close();
-  };
-  for (let i = 0; i < n; i++) {
-    if (!keep[i]) continue;
-    const tg = target[i];
-    const ap = applied[i];
-    if (!(tg > 0) || !Number.isFinite(ap) || !Number.isFinite(t[i])) continue;
-    if (prev >= 0) {
-      if (t[i] < t[prev])
-        throw new RangeError(`The log must be sorted by time: point ${i} comes before point ${prev}`);
-      handle(prev, i);
-    }
-    const r = (ap - tg) / tg;
-    prevOut = r > band ? 1 : r < -band ? -1 : 0;
-    prev = i;
+    if (!joined && first >= 0) close();
+    i = next;
   }
-  if (prev >= 0) handle(prev, -1);
-  close();
 
   return {
     bandFraction: band,

@@ -35,13 +35,16 @@ export function quantileSorted(sorted: ArrayLike<number>, q: number): number {
 let levelValues = new Float64Array(256);
 
 /**
- * Median applied rate over seq[a…b] from time `since` on (NaN when none). The values are finite, so the typed
- * array's own numeric sort orders them as a comparator would, without a call per comparison.
+ * Median applied rate over the usable points of a…b (indices into the log) from time `since` on (NaN when
+ * none). The values are finite, so the typed array's own numeric sort orders them as a comparator would,
+ * without a call per comparison.
  */
-function levelOf(c: LogColumns, seq: Int32Array, a: number, b: number, since: number): number {
+function levelOf(c: LogColumns, usable: (i: number) => boolean, a: number, b: number, since: number): number {
   let k = 0;
-  for (let q = b; q >= a && c.t[seq[q]] >= since; q--) {
-    const v = c.applied[seq[q]];
+  for (let i = b; i >= a; i--) {
+    if (!usable(i)) continue;
+    if (!(c.t[i] >= since)) break;
+    const v = c.applied[i];
     if (!Number.isFinite(v)) continue;
     if (k === levelValues.length) {
       const grown = new Float64Array(2 * k);
@@ -91,29 +94,31 @@ export function controllerLag(
   if (!(maxLag > 0)) throw new RangeError(`The longest lag must be positive, got ${maxLag}`);
   const { t, target, applied } = c;
 
-  // The usable kept points in order, and the runs of one target value (split at gaps).
-  const seq = new Int32Array(n);
-  let m = 0;
-  for (let i = 0; i < n; i++) if (keep[i] && target[i] > 0 && Number.isFinite(t[i])) seq[m++] = i;
-  const runStart: number[] = [];
+  // The usable points: kept, with a positive target and a finite time, read where they are (no array of
+  // their indices as long as the log). The runs of one target value (split at gaps): first and last points.
+  const usable = (i: number) => keep[i] !== 0 && target[i] > 0 && Number.isFinite(t[i]);
+  const runFirst: number[] = [];
+  const runLast: number[] = [];
   const joinedToPrev: boolean[] = []; // the run follows the one before without a gap
-  for (let q = 0; q < m; q++) {
-    const i = seq[q];
-    if (q === 0) {
-      runStart.push(0);
+  let p = -1;
+  for (let i = 0; i < n; i++) {
+    if (!usable(i)) continue;
+    if (p >= 0) {
+      const dt = t[i] - t[p];
+      if (dt < 0) throw new RangeError(`The log must be sorted by time: point ${i} comes before point ${p}`);
+      const gap = dt > LAG_GAP_S;
+      if (gap || !sameLevel(target[i], target[p])) {
+        runLast.push(p);
+        runFirst.push(i);
+        joinedToPrev.push(!gap);
+      }
+    } else {
+      runFirst.push(i);
       joinedToPrev.push(false);
-      continue;
     }
-    const p = seq[q - 1];
-    const dt = t[i] - t[p];
-    if (dt < 0) throw new RangeError(`The log must be sorted by time: point ${i} comes before point ${p}`);
-    const gap = dt > LAG_GAP_S;
-    if (gap || !sameLevel(target[i], target[p])) {
-      runStart.push(q);
-      joinedToPrev.push(!gap);
-    }
+    p = i;
   }
-  runStart.push(m);
+  if (p >= 0) runLast.push(p);
 
   const scale = localScale(c.lat);
   const latencies: number[] = [];
@@ -121,45 +126,50 @@ export function controllerLag(
   const perTransition: ControllerLag['perTransition'] = [];
   let areaAffected = 0;
   let quantityAffected = 0;
-  const runs = runStart.length - 1;
+  const runs = runFirst.length;
   for (let r = 1; r < runs; r++) {
     if (!joinedToPrev[r]) continue;
-    const oldFirst = runStart[r - 1];
-    const first = runStart[r];
-    const last = runStart[r + 1] - 1;
-    const oldTarget = target[seq[first - 1]];
-    const newTarget = target[seq[first]];
+    const oldFirst = runFirst[r - 1];
+    const oldLast = runLast[r - 1];
+    const first = runFirst[r];
+    const last = runLast[r];
+    const oldTarget = target[oldLast];
+    const newTarget = target[first];
     if (Math.abs(newTarget - oldTarget) < minStep * oldTarget) continue;
-    const tc = (t[seq[first - 1]] + t[seq[first]]) / 2;
-    const tEnd = r + 1 < runs && joinedToPrev[r + 1] ? (t[seq[last]] + t[seq[last + 1]]) / 2 : t[seq[last]];
-    if (tc - t[seq[oldFirst]] < LAG_STEADY_S || tEnd - tc < LAG_STEADY_S) continue;
+    const tc = (t[oldLast] + t[first]) / 2;
+    const tEnd = r + 1 < runs && joinedToPrev[r + 1] ? (t[last] + t[runFirst[r + 1]]) / 2 : t[last];
+    if (tc - t[oldFirst] < LAG_STEADY_S || tEnd - tc < LAG_STEADY_S) continue;
 
     // The levels the applied rate held: its median over the last seconds of the old run and of the new one
     // (the controller may sit off target, e.g. a disc at its limit). A step it did not follow is passed over.
-    const from = levelOf(c, seq, oldFirst, first - 1, tc - LEVEL_S);
-    const to = levelOf(c, seq, first, last, Math.max(tc, tEnd - LEVEL_S));
+    const from = levelOf(c, usable, oldFirst, oldLast, tc - LEVEL_S);
+    const to = levelOf(c, usable, first, last, Math.max(tc, tEnd - LEVEL_S));
     const sgn = Math.sign(newTarget - oldTarget);
     if (!(sgn * (to - from) >= minStep * Math.abs(from))) continue;
 
     // Least-squares step between those levels: a point fits the new level better when it lies past halfway,
     // so the best split minimises the running sum of sgn × (a − halfway) over the points left at the old level.
+    // i0 is the last point left at the old level (at first the old run's last), i1 the point after it once the
+    // window has reached it (−1 until then).
     const half = (from + to) / 2;
-    let best = first;
+    let i0 = oldLast;
+    let i1 = -1;
     let bestSum = 0;
     let sum = 0;
-    let q = first;
-    for (; q <= last && t[seq[q]] - tc <= maxLag; q++) {
-      const a = applied[seq[q]];
+    for (let i = first; i <= last; i++) {
+      if (!usable(i)) continue;
+      if (!(t[i] - tc <= maxLag)) break;
+      if (i1 < 0) i1 = i;
+      const a = applied[i];
       if (Number.isFinite(a)) sum += sgn * (a - half);
       if (sum < bestSum) {
         bestSum = sum;
-        best = q + 1;
+        i0 = i;
+        i1 = -1;
       }
     }
-    if (best >= q) continue; // every point fits the old level: never crossed within the window
+    if (i1 < 0) continue; // every point fits the old level: never crossed within the window
 
-    const i0 = seq[best - 1];
-    const i1 = seq[best];
     const a0 = applied[i0];
     const a1 = applied[i1];
     const straddle = (a0 - half) * (a1 - half) <= 0 && a0 !== a1;
@@ -169,13 +179,12 @@ export function controllerLag(
     if (perTransition.length < MAX_LISTED) perTransition.push({ t: tc, latencyS: latency });
 
     let stepArea = 0;
-    for (let k = first; k < best; k++) stepArea += area[seq[k]];
+    for (let i = first; i <= i0; i++) if (usable(i)) stepArea += area[i];
     areaAffected += stepArea;
     quantityAffected += Math.abs(newTarget - oldTarget) * stepArea;
 
-    const j = seq[first];
-    let v = loggedSpeedAt(c, j);
-    if (!Number.isFinite(v)) v = pointDistanceM(c, scale, seq[first - 1], j) / (t[j] - t[seq[first - 1]]);
+    let v = loggedSpeedAt(c, first);
+    if (!Number.isFinite(v)) v = pointDistanceM(c, scale, oldLast, first) / (t[first] - t[oldLast]);
     if (Number.isFinite(v)) speeds.push(v);
   }
 

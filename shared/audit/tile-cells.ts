@@ -173,18 +173,21 @@ export function tileCells(c: LogColumns, keep: Uint8Array, trueApplied: Float64A
   }
   const levels: [number, CellSums][] = [[top, level]];
   for (let z = top - 1; z >= CELL_ZOOMS[0]; z--) {
-    const next = new CellSums(level.size >> 1);
+    // At most as many cells as the level below: the table never grows.
+    const next = new CellSums(level.size);
     const from = level.sums;
+    const to = next.sums;
     for (let a = 0; a < level.size; a++) {
       const cx = Math.floor(level.cx[a] / 2);
       const cy = Math.floor(level.cy[a] / 2);
       let b = next.find(cx, cy);
-      const fresh = b < 0;
-      if (fresh) b = next.add(cx, cy);
-      const to = next.sums;
       // The first child's sums are copied, the others' added (in the order of the level below).
-      for (let j = 0; j < SUMS; j++)
-        to[b * SUMS + j] = fresh ? from[a * SUMS + j] : to[b * SUMS + j] + from[a * SUMS + j];
+      if (b < 0) {
+        b = next.add(cx, cy);
+        for (let j = 0; j < SUMS; j++) to[b * SUMS + j] = from[a * SUMS + j];
+      } else {
+        for (let j = 0; j < SUMS; j++) to[b * SUMS + j] += from[a * SUMS + j];
+      }
     }
     levels.push([z, next]);
     level = next;
