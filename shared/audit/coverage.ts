@@ -80,13 +80,6 @@ function rectSpans(
   PY[1] = y1 + ny;
   PY[2] = y1 - ny;
   PY[3] = y0 - ny;
-  // A step of a 10 Hz log is a fraction of a cell long: travelling along the rows, most rectangles hold no
-  // column of cell centres (half-integers) between their corners' x. No row can then have a cell, so the rows
-  // need no scan. The slack (far above the rounding of the interpolations below) keeps the test one-sided.
-  const minX = Math.min(PX[0], PX[1], PX[2], PX[3]);
-  const maxX = Math.max(PX[0], PX[1], PX[2], PX[3]);
-  const slack = 1e-7 * (1 + Math.abs(minX) + Math.abs(maxX));
-  if (Math.ceil(minX - 0.5 - slack) > Math.ceil(maxX - 0.5 + slack) - 1) return 0;
   const minY = Math.min(PY[0], PY[1], PY[2], PY[3]);
   const maxY = Math.max(PY[0], PY[1], PY[2], PY[3]);
   const r0 = Math.max(0, Math.ceil(minY - 0.5));
@@ -119,6 +112,25 @@ function rectSpans(
     m++;
   }
   return m;
+}
+
+/**
+ * False when the rectangle {@link rectSpans} would scan for the step (x0, ·) → (x0 + dx, ·) with half-width h
+ * (cell units) can hold no cell: no column of cell centres (a half-integer) lies within its corners' x. A step
+ * of a 10 Hz log is a fraction of a cell long, so travelling along the rows most steps are passed over here,
+ * before the exact geometry. The corners lie within h·|dy| / max(|dx|, |dy|) (at least |h·dy / length|) of the
+ * track's x; the slack, far above any rounding, keeps the test one-sided: true whenever a cell is possible.
+ */
+function mayHoldCells(x0: number, dx: number, dy: number, h: number): boolean {
+  const ax = Math.abs(dx);
+  const ay = Math.abs(dy);
+  const longer = ax > ay ? ax : ay;
+  if (!(longer > 0) || !(h > 0)) return false; // a point or no width: nothing to paint
+  const reach = (h * ay) / longer;
+  const lo = Math.min(x0, x0 + dx) - reach;
+  const hi = Math.max(x0, x0 + dx) + reach;
+  const slack = 1e-7 * (1 + Math.abs(lo) + Math.abs(hi));
+  return Math.ceil(lo - 0.5 - slack) <= Math.ceil(hi - 0.5 + slack) - 1;
 }
 
 /** The base64 alphabet as character codes. */
@@ -327,10 +339,12 @@ export function coverageOf(
     }
     const dx = x1 - x0;
     const dy = y1 - y0;
-    const len = hypot(dx, dy);
     const logged = width ? width[k] : Number.NaN;
     const widthM = Number.isFinite(logged) ? Math.max(0, logged) : fallbackM;
-    const spans = rectSpans(frame, x0, y0, x1, y1, len, widthM / 2 / cellM);
+    const h = widthM / 2 / cellM;
+    if (!mayHoldCells(x0, dx, dy, h)) return;
+    const len = hypot(dx, dy);
+    const spans = rectSpans(frame, x0, y0, x1, y1, len, h);
     if (spans === 0) return;
 
     // As logged: a cell counts once per pass; a field cell painted by an earlier pass adds to the overlap.
@@ -433,4 +447,3 @@ function sectionLayout(c: LogColumns, opts: CoverageOptions): { advised: number 
   const finest = minRowsPerSection(rowCount, displaySectionLimit);
   return { advised: known && finest >= r ? 1 : finest };
 }
-

@@ -186,15 +186,15 @@ function medianSpacing(parts: Float64Array[], keep: Uint8Array): number {
     f[0] = v + 0; // −0 as 0: equal in the numeric order, different in bits
     return u[1];
   };
-  /** The values whose high word passes `use`, counted by `bucket` of that word. */
-  const histogram = (use: (hi: number) => boolean, bucket: (hi: number) => number) => {
+  /** The values whose high word `admits`, counted by `bucket` of that word. */
+  const histogram = (admits: (hi: number) => boolean, bucket: (hi: number) => number) => {
     const h = new Float64Array(65_536);
     for (const values of parts)
       for (let i = 0; i < values.length; i++) {
         const v = values[i];
         if (!isSpacing(v, keep, i)) continue;
         const hi = hiOf(v);
-        if (use(hi)) h[bucket(hi)]++;
+        if (admits(hi)) h[bucket(hi)]++;
       }
     return h;
   };

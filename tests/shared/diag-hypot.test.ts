@@ -4,8 +4,24 @@ import { seededRandom } from '../../shared/audit/synthetic-log';
 
 describe('hypot', () => {
   it('gives Math.hypot to the last bit, special values included', () => {
-    const special = [0, -0, 1, -1, 3, 4, Number.NaN, Infinity, -Infinity, 5e-324, 1e-310, 1e-154, 1e154, Number.MAX_VALUE];
-    for (const x of special) for (const y of special) expect(Object.is(hypot(x, y), Math.hypot(x, y))).toBe(true);
+    const special = [
+      0,
+      -0,
+      1,
+      -1,
+      3,
+      4,
+      Number.NaN,
+      Infinity,
+      -Infinity,
+      5e-324,
+      1e-310,
+      1e-154,
+      1e154,
+      Number.MAX_VALUE,
+    ];
+    for (const x of special)
+      for (const y of special) expect(Object.is(hypot(x, y), Math.hypot(x, y))).toBe(true);
   });
 
   it('gives Math.hypot to the last bit on seeded random steps and on arbitrary bit patterns', () => {

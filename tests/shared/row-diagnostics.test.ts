@@ -131,7 +131,11 @@ describe('rowDiagnostics', () => {
     for (const n of [20_001, 20_002]) {
       const rows = [0, 1, 2].map(() =>
         Array.from({ length: n }, (_, i) =>
-          i % 97 === 0 ? Number.NaN : i % 89 === 0 ? -1 : Math.round(150 + 60 * (random() - 0.5) ** 3 * 8) / 1000,
+          i % 97 === 0
+            ? Number.NaN
+            : i % 89 === 0
+              ? -1
+              : Math.round(150 + 60 * (random() - 0.5) ** 3 * 8) / 1000,
         ),
       );
       const c = withRows('spacing', rows);
