@@ -31,6 +31,7 @@ import { cleaningSettingsSchema } from '../shared/schemas/as-applied.schema';
 import { rateToSi } from '../shared/rates/rate-units';
 import { runPipeline, type PipelineInput, type PipelineStage } from '../server/logs/pipeline';
 import { copyLogTable, PARTITION_INDEX } from '../server/logs/store-points';
+import { readIntoShared } from '../server/logs/file-store';
 import { cellColumns, pointColumns } from '../server/logs/import-log';
 
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
@@ -365,7 +366,8 @@ type BenchInput = Omit<PipelineInput, 'bytes' | 'fileName' | 'format'>;
 async function ours(file: string, input: BenchInput, diagnose = false) {
   const stages: Partial<Record<PipelineStage | 'end', number>> = {};
   const t0 = performance.now();
-  const bytes = new Uint8Array(readFileSync(file));
+  // Read into shared memory, as the import does (FileStore.readShared): the CSV is parsed by two threads.
+  const bytes = await readIntoShared(file);
   const tRead = performance.now();
   const out = await runPipeline(
     { ...input, bytes, fileName: path.basename(file), format: 'csv', diagnose },

@@ -37,17 +37,55 @@ const uuidBytes = (uuid: string) => {
   return Buffer.from(hex, 'hex');
 };
 
+/** Writes rows [from, to) at o; answers the offset after them. */
+type RowWriter = (dv: DataView, buf: Buffer, o: number, from: number, to: number) => number;
+
+const SETTER = { int2: 'setInt16', int4: 'setInt32', float4: 'setFloat32', float8: 'setFloat64' } as const;
+
+/**
+ * The row loop, written for this list of columns (code generated once per COPY): each column reads its own
+ * array at its own site, so every load stays monomorphic — one generic loop over mixed Float64Array,
+ * Float32Array, Int16Array and Uint8Array columns ran five times slower.
+ */
+function rowWriter(columns: BinaryColumn[]): RowWriter {
+  const args: unknown[] = [];
+  const arg = (v: unknown) => {
+    args.push(v);
+    return `a${args.length - 1}`;
+  };
+  const parts = columns.map((c) => {
+    if (c.type === 'uuid') return `dv.setInt32(o, 16); buf.set(${arg(uuidBytes(c.value))}, o + 4); o += 20;`;
+    if (c.type === 'rowNumber') return 'dv.setInt32(o, 4); dv.setInt32(o + 4, i); o += 8;';
+    if (c.type === 'point4326')
+      return (
+        `dv.setInt32(o, ${EWKB_POINT_BYTES}); dv.setUint8(o + 4, 1); dv.setUint32(o + 5, ${EWKB_POINT_SRID}, true);` +
+        ` dv.setUint32(o + 9, 4326, true); dv.setFloat64(o + 13, ${arg(c.lon)}[i], true);` +
+        ` dv.setFloat64(o + 21, ${arg(c.lat)}[i], true); o += ${4 + EWKB_POINT_BYTES};`
+      );
+    if (!c.values) return 'dv.setInt32(o, -1); o += 4;';
+    const w = WIDTH[c.type];
+    return (
+      `{ const v = ${arg(c.values)}[i]; if (v !== v) { dv.setInt32(o, -1); o += 4; }` +
+      ` else { dv.setInt32(o, ${w}); dv.${SETTER[c.type]}(o + 4, v); o += ${4 + w}; } }`
+    );
+  });
+  const names = args.map((_, k) => `a${k}`);
+  const body = `return function writeRows(dv, buf, o, from, to) {
+    for (let i = from; i < to; i++) { dv.setInt16(o, ${columns.length}); o += 2; ${parts.join('\n')} }
+    return o;
+  };`;
+  // Generated from our own column list only (no outside text reaches the code).
+  return new Function(...names, body)(...args) as RowWriter;
+}
+
 /**
  * Yields the binary COPY stream of `rows` rows in chunks of `chunkRows` (the header before the first, the
- * trailer after the last), ready for pg-copy-streams' `COPY … FROM STDIN (FORMAT binary)`.
+ * trailer after the last), ready for pg-copy-streams' `COPY … FROM STDIN (FORMAT binary)`. Chunks are kept
+ * small (under 128 KB), so their memory comes back from the allocator's heap instead of fresh pages.
  */
-export function* binaryCopyChunks(
-  rows: number,
-  columns: BinaryColumn[],
-  chunkRows = 16_384,
-): Generator<Buffer> {
+export function* binaryCopyChunks(rows: number, columns: BinaryColumn[], chunkRows = 512): Generator<Buffer> {
   const rowBytes = 2 + columns.reduce((s, c) => s + 4 + WIDTH[c.type], 0);
-  const uuids = columns.map((c) => (c.type === 'uuid' ? uuidBytes(c.value) : null));
+  const writeRows = rowWriter(columns);
   for (let from = 0; from === 0 || from < rows; from += chunkRows) {
     const to = Math.min(rows, from + chunkRows);
     const first = from === 0;
@@ -61,44 +99,7 @@ export function* binaryCopyChunks(
       dv.setInt32(SIGNATURE.length + 4, 0); // no header extension
       o = HEADER_BYTES;
     }
-    for (let i = from; i < to; i++) {
-      dv.setInt16(o, columns.length);
-      o += 2;
-      for (let k = 0; k < columns.length; k++) {
-        const c = columns[k];
-        if (c.type === 'uuid') {
-          dv.setInt32(o, 16);
-          buf.set(uuids[k]!, o + 4);
-          o += 20;
-        } else if (c.type === 'point4326') {
-          dv.setInt32(o, EWKB_POINT_BYTES);
-          dv.setUint8(o + 4, 1); // little endian
-          dv.setUint32(o + 5, EWKB_POINT_SRID, true);
-          dv.setUint32(o + 9, 4326, true);
-          dv.setFloat64(o + 13, c.lon[i], true);
-          dv.setFloat64(o + 21, c.lat[i], true);
-          o += 4 + EWKB_POINT_BYTES;
-        } else if (c.type === 'rowNumber') {
-          dv.setInt32(o, 4);
-          dv.setInt32(o + 4, i);
-          o += 8;
-        } else {
-          const v = c.values ? c.values[i] : NaN;
-          if (Number.isNaN(v)) {
-            dv.setInt32(o, -1);
-            o += 4;
-            continue;
-          }
-          const w = WIDTH[c.type];
-          dv.setInt32(o, w);
-          if (c.type === 'float8') dv.setFloat64(o + 4, v);
-          else if (c.type === 'float4') dv.setFloat32(o + 4, v);
-          else if (c.type === 'int4') dv.setInt32(o + 4, v);
-          else dv.setInt16(o + 4, v);
-          o += 4 + w;
-        }
-      }
-    }
+    o = writeRows(dv, buf, o, from, to);
     if (last) {
       dv.setInt16(o, -1);
       o += 2;

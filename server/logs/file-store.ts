@@ -4,6 +4,23 @@ import { mkdir, open, readFile, rename, rm, stat } from 'node:fs/promises';
 import type { Readable } from 'node:stream';
 import path from 'node:path';
 
+/** A whole file read into a SharedArrayBuffer. */
+export async function readIntoShared(file: string): Promise<Uint8Array> {
+  const fh = await open(file, 'r');
+  try {
+    const { size } = await fh.stat();
+    const bytes = new Uint8Array(new SharedArrayBuffer(size));
+    for (let at = 0; at < size;) {
+      const { bytesRead } = await fh.read(bytes, at, size - at, at);
+      if (bytesRead === 0) throw new Error(`${file} ended at ${at} of ${size} bytes`);
+      at += bytesRead;
+    }
+    return bytes;
+  } finally {
+    await fh.close();
+  }
+}
+
 /** An upload streamed to a temporary file (`FileStore.receive`), not yet at its content address. */
 export type ReceivedFile = { tmp: string; sha256: string; sizeBytes: number; head: Uint8Array };
 
@@ -94,6 +111,11 @@ export class FileStore {
   async discard(tmp: string) {
     if (path.dirname(tmp) !== path.join(this.dir, 'log-files', 'incoming')) return;
     await rm(tmp, { force: true });
+  }
+
+  /** The file's bytes in shared memory, so the threads that read it share them instead of copying. */
+  async readShared(sha256: string): Promise<Uint8Array> {
+    return readIntoShared(this.pathOf(sha256));
   }
 
   read(sha256: string): Promise<Buffer> {

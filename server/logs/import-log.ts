@@ -156,7 +156,7 @@ export async function importLog(deps: ImportDeps, logId: string) {
       unitName: 'unit',
       kind: 'seed' as const,
     };
-    const bytes = new Uint8Array(await deps.files.read(ctx.sha256));
+    const bytes = await deps.files.readShared(ctx.sha256);
     let lastWrite = 0;
     const output = await runPipelineInWorker(
       {

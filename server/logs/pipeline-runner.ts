@@ -109,6 +109,8 @@ export function runPipelineInWorker(
       clearTimeout(timer);
       if (code !== 0) reject(new LogReadError('Reading the log stopped unexpectedly', null));
     });
-    worker.postMessage(input, [input.bytes.buffer as ArrayBuffer]);
+    // Shared bytes (FileStore.readShared) are shared with the worker; others are handed over.
+    const shared = input.bytes.buffer instanceof SharedArrayBuffer;
+    worker.postMessage(input, shared ? [] : [input.bytes.buffer as ArrayBuffer]);
   });
 }

@@ -1,6 +1,7 @@
 import { parentPort } from 'node:worker_threads';
 import { runPipeline, storedPointsOf, type PipelineInput } from './pipeline';
 import type { WorkerMessage } from './pipeline-runner';
+import { startParseHelper } from './parse-helper';
 
 /**
  * The worker side: waits for one input, runs the pipeline, posts progress, then a copy of the points to
@@ -8,6 +9,9 @@ import type { WorkerMessage } from './pipeline-runner';
  * result by transfer. One run per worker: the runner ends it afterwards, which frees its memory.
  */
 const post = (m: WorkerMessage, transfer: ArrayBuffer[] = []) => parentPort!.postMessage(m, transfer);
+
+// The second parsing thread starts while this worker waits for its log.
+startParseHelper();
 
 parentPort!.once('message', async (input: PipelineInput) => {
   try {
@@ -45,7 +49,7 @@ parentPort!.once('message', async (input: PipelineInput) => {
       output.area,
       ...c.rows.map((r) => r.values),
     ]) {
-      if (a) buffers.add(a.buffer as ArrayBuffer);
+      if (a && !(a.buffer instanceof SharedArrayBuffer)) buffers.add(a.buffer as ArrayBuffer);
     }
     post({ type: 'done', output }, [...buffers]);
   } catch (err) {

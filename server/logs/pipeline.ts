@@ -7,7 +7,8 @@ import type {
 } from '../../shared/schemas/as-applied.schema';
 import type { RateUnit } from '../../shared/rates/rate-units';
 import type { UnitSystem } from '../../shared/units';
-import { parseLogCsv } from '../../shared/audit/csv-log';
+import { parseLogCsv, parseLogCsvParallel } from '../../shared/audit/csv-log';
+import { parseRangeInHelper } from './parse-helper';
 import { cleanLog } from '../../shared/audit/clean-log';
 import { zoneIndexOf } from '../../shared/audit/zone-join';
 import { auditLog } from '../../shared/audit/audit-log';
@@ -134,7 +135,12 @@ export async function runPipeline(
 ): Promise<PipelineOutput> {
   progress('reading', 0);
   const csv = input.format === 'csv' ? input.bytes : await pointsFileToCsv(input.bytes, input.fileName);
-  const parsed = parseLogCsv(csv, input.mapping, { onProgress: (f) => progress('reading', f) });
+  const onProgress = (f: number) => progress('reading', f);
+  // A large CSV in shared memory is read by two threads (the second: server/logs/parse-helper.ts).
+  const parsed =
+    csv.buffer instanceof SharedArrayBuffer
+      ? await parseLogCsvParallel(csv, input.mapping, parseRangeInHelper, { onProgress })
+      : parseLogCsv(csv, input.mapping, { onProgress });
   progress('cleaning', 0);
   const zonesGeo = input.zones.map((z) => z.geometry);
   const rawZone = zoneIndexOf(parsed.lon, parsed.lat, zonesGeo, input.boundary);

@@ -27,11 +27,14 @@ export type CsvDelimiter = ',' | ';' | '\t';
 export class LogParseError extends Error {
   readonly line: number;
   readonly column: string | null;
+  /** What is wrong, without the line. */
+  readonly detail: string;
   constructor(line: number, column: string | null, detail: string) {
     super(`line ${groupDigits(line)}: ${detail}`);
     this.name = 'LogParseError';
     this.line = line;
     this.column = column;
+    this.detail = detail;
   }
 }
 
@@ -819,8 +822,10 @@ function makePlan(mapping: ColumnMapping, columns: string[], out: LogColumns): P
   return plan;
 }
 
-function allocate(mapping: ColumnMapping, cap: number): LogColumns {
-  const f = () => new Float64Array(cap);
+function allocate(mapping: ColumnMapping, cap: number, shared = false): LogColumns {
+  // Shared memory when two threads fill the columns (parseLogCsvParallel).
+  const f = () => (shared ? new Float64Array(new SharedArrayBuffer(cap * 8)) : new Float64Array(cap));
+  const bytes = () => (shared ? new Uint8Array(new SharedArrayBuffer(cap)) : new Uint8Array(cap));
   const has = (k: LogField) => Boolean(mapping.fields[k]);
   return {
     n: 0,
@@ -833,10 +838,10 @@ function allocate(mapping: ColumnMapping, cap: number): LogColumns {
     speedMps: has('speed') ? f() : null,
     wheelMps: has('wheelSpeed') ? f() : null,
     gnssMps: has('gnssSpeed') ? f() : null,
-    speedSource: has('speedSource') ? new Uint8Array(cap) : null,
+    speedSource: has('speedSource') ? bytes() : null,
     widthM: has('width') ? f() : null,
     sectionsOn: has('sectionsOn') ? f() : null,
-    workOn: has('workOn') ? new Uint8Array(cap) : null,
+    workOn: has('workOn') ? bytes() : null,
     rows: (mapping.rows ?? []).map((r) => ({ row: r.row, kind: r.kind, values: f() })),
   };
 }
@@ -957,18 +962,18 @@ function readTextField(
  * LF bytes from `start` to the end, or a few more: four bytes at a time (a byte is flagged when it is LF, or,
  * rarely, when it is 0x0B just above an LF), for a capacity that is never too small.
  */
-function countLineBreaks(b: Uint8Array, start: number): number {
+function countLineBreaks(b: Uint8Array, start: number, end: number): number {
   let count = 0;
   let i = start;
-  while (i < b.length && (b.byteOffset + i) % 4 !== 0) if (b[i++] === LF) count++;
-  const words = new Uint32Array(b.buffer, b.byteOffset + i, (b.length - i) >> 2);
+  while (i < end && (b.byteOffset + i) % 4 !== 0) if (b[i++] === LF) count++;
+  const words = new Uint32Array(b.buffer, b.byteOffset + i, Math.max(0, end - i) >> 2);
   for (let k = 0; k < words.length; k++) {
     const x = words[k] ^ 0x0a0a0a0a;
     const t = (x - 0x01010101) & ~x & 0x80808080;
     if (t !== 0)
       count += (t & 0x80 ? 1 : 0) + (t & 0x8000 ? 1 : 0) + (t & 0x800000 ? 1 : 0) + (t & 0x80000000 ? 1 : 0);
   }
-  for (i += words.length * 4; i < b.length; i++) if (b[i] === LF) count++;
+  for (i += words.length * 4; i < end; i++) if (b[i] === LF) count++;
   return count;
 }
 
@@ -1084,22 +1089,205 @@ export function parseLogCsv(
 ): LogColumns & { skipped: { count: number; lines: number[] } } {
   const maxLineBytes = opts.maxLineBytes ?? DEFAULT_MAX_LINE_BYTES;
   const header = headerOf(bytes, 0, maxLineBytes);
-  const { columns, delimiter } = header;
-  checkMapping(mapping, columns);
-  const b = bytes;
-  const len = b.length;
-  const delim = delimiter.charCodeAt(0);
-  const decimalComma = delimiter === ';';
-
+  checkMapping(mapping, header.columns);
+  const len = bytes.length;
   // Sized by the lines below the header (a point takes at least one), so the columns are usually returned
   // without a copy; grown by half should it ever run out.
-  let cap = countLineBreaks(b, header.dataStart) + (len > header.dataStart && b[len - 1] !== LF ? 1 : 0);
-  let out = allocate(mapping, cap);
+  const cap =
+    countLineBreaks(bytes, header.dataStart, len) + (len > header.dataStart && bytes[len - 1] !== LF ? 1 : 0);
+  const r = parseBody(bytes, mapping, header, allocate(mapping, cap), cap, {
+    start: header.dataStart,
+    end: len,
+    firstLine: header.dataLine,
+    n0: 0,
+    maxLineBytes,
+    onProgress: opts.onProgress,
+  });
+  applyUnitFactors(mapping, header.columns, r.out, r.n);
+  opts.onProgress?.(1);
+  return { ...shrink(r.out, r.n), skipped: r.skipped };
+}
+
+/** The lines of [start, end) below the header, for a second thread (`parseLogCsvParallel`). */
+export type CsvRangeJob = {
+  /** The whole file (shared memory, so nothing is copied to the thread). */
+  bytes: Uint8Array;
+  mapping: ColumnMapping;
+  start: number;
+  end: number;
+  /** The row of the columns the range's first point goes to. */
+  n0: number;
+  maxLineBytes: number;
+  /** The columns of the whole file, in shared memory: the range writes its rows from n0 on. */
+  columns: LogColumns;
+  cap: number;
+};
+
+/**
+ * What a range read: the row after its last point and its skipped points; line numbers in it (`skipped`,
+ * a LogParseError's) count from 0 at the range's first line, for the caller to add the lines before it.
+ */
+export type CsvRangeResult = { n: number; skipped: { count: number; lines: number[] } };
+
+/** Reads one range of a file's lines into shared columns (the second thread's half of parseLogCsvParallel). */
+export function parseLogCsvRange(job: CsvRangeJob): CsvRangeResult {
+  const header = headerOf(job.bytes, 0, job.maxLineBytes);
+  const r = parseBody(job.bytes, job.mapping, header, job.columns, job.cap, {
+    start: job.start,
+    end: job.end,
+    firstLine: 0,
+    n0: job.n0,
+    maxLineBytes: job.maxLineBytes,
+    fixedCapacity: true,
+  });
+  return { n: r.n, skipped: r.skipped };
+}
+
+/** A file smaller than this is read by one thread: a second would cost more than it saves. */
+export const PARALLEL_MIN_BYTES = 4 * 1024 * 1024;
+
+/**
+ * parseLogCsv with the lines split between this thread and `second` (a worker running parseLogCsvRange):
+ * the same columns, skipped points and errors (the first line's error wins), in about half the time. Both
+ * halves write into one set of columns in shared memory, the second from an upper bound of the first's
+ * points on; a gap (blank or skipped lines in the first half) is closed after. A file with a quote in its
+ * body (a quoted field may hold a line break), a small file, or bytes not in shared memory and a failing
+ * second thread are read by this thread alone.
+ */
+export async function parseLogCsvParallel(
+  bytes: Uint8Array,
+  mapping: ColumnMapping,
+  second: (job: CsvRangeJob) => Promise<CsvRangeResult>,
+  opts: { onProgress?(fraction: number): void; maxLineBytes?: number; minBytes?: number } = {},
+): Promise<LogColumns & { skipped: { count: number; lines: number[] } }> {
+  const maxLineBytes = opts.maxLineBytes ?? DEFAULT_MAX_LINE_BYTES;
+  const minBytes = opts.minBytes ?? PARALLEL_MIN_BYTES;
+  const len = bytes.length;
+  const shared = typeof SharedArrayBuffer !== 'undefined' && bytes.buffer instanceof SharedArrayBuffer;
+  const header = headerOf(bytes, 0, maxLineBytes);
+  if (!shared || len - header.dataStart < minBytes || bytes.indexOf(QUOTE, header.dataStart) >= 0)
+    return parseLogCsv(bytes, mapping, opts);
+  checkMapping(mapping, header.columns);
+  const mid = bytes.indexOf(LF, header.dataStart + ((len - header.dataStart) >> 1)) + 1;
+  if (mid <= 0 || mid >= len) return parseLogCsv(bytes, mapping, opts);
+  const firstCap = countLineBreaks(bytes, header.dataStart, mid);
+  const cap = firstCap + countLineBreaks(bytes, mid, len) + (bytes[len - 1] !== LF ? 1 : 0);
+  const out = allocate(mapping, cap, true);
+  const job: CsvRangeJob = {
+    bytes,
+    mapping,
+    start: mid,
+    end: len,
+    n0: firstCap,
+    maxLineBytes,
+    columns: out,
+    cap,
+  };
+  const pending = second(job).then(
+    (r) => ({ ok: true as const, r }),
+    (err: unknown) => ({ ok: false as const, err }),
+  );
+  let first: ReturnType<typeof parseBody>;
+  try {
+    first = parseBody(bytes, mapping, header, out, cap, {
+      start: header.dataStart,
+      end: mid,
+      firstLine: header.dataLine,
+      n0: 0,
+      maxLineBytes,
+      fixedCapacity: true,
+      onProgress: opts.onProgress ? (f) => opts.onProgress!(f / 2) : undefined,
+    });
+  } catch (err) {
+    await pending; // the second thread is done with the columns before they are dropped
+    throw err;
+  }
+  const linesBefore = first.line; // the line number of the second half's first line
+  const done = await pending;
+  let secondPart: CsvRangeResult;
+  if (done.ok) secondPart = done.r;
+  else if (done.err instanceof LogParseError)
+    throw new LogParseError(done.err.line + linesBefore, done.err.column, done.err.detail);
+  else {
+    // The second thread failed (not the file): this thread reads the second half too.
+    const r = parseBody(bytes, mapping, header, out, cap, {
+      start: mid,
+      end: len,
+      firstLine: 0,
+      n0: firstCap,
+      maxLineBytes,
+      fixedCapacity: true,
+    });
+    secondPart = { n: r.n, skipped: r.skipped };
+  }
+  let n = secondPart.n;
+  if (first.n < firstCap) {
+    const gap = firstCap - first.n;
+    mapArrays(out, n, (a) => {
+      a.copyWithin(first.n, firstCap, n);
+      return a;
+    });
+    n -= gap;
+  }
+  applyUnitFactors(mapping, header.columns, out, n);
+  opts.onProgress?.(1);
+  const skipped = {
+    count: first.skipped.count + secondPart.skipped.count,
+    lines: [...first.skipped.lines, ...secondPart.skipped.lines.map((l) => l + linesBefore)].slice(0, 5),
+  };
+  return { ...shrink(out, n), skipped };
+}
+
+/** The units' factors, one column at a time (value × mul ÷ div: the same arithmetic as shared/units.ts). */
+function applyUnitFactors(mapping: ColumnMapping, columns: string[], out: LogColumns, n: number) {
+  const plan = makePlan(mapping, columns, out);
+  for (let k = 0; k < columns.length; k++) {
+    const mul = plan.mul[k];
+    const div = plan.div[k];
+    if (plan.kind[k] !== K_NUMBER || (mul === 1 && div === 1)) continue;
+    const a = plan.num[k];
+    for (let i = 0; i < n; i++) a[i] = (a[i] * mul) / div;
+  }
+}
+
+type BodyRange = {
+  start: number;
+  end: number;
+  firstLine: number;
+  n0: number;
+  maxLineBytes: number;
+  /** The columns were sized for every line of the range: never grown (they may be shared). */
+  fixedCapacity?: boolean;
+  onProgress?(fraction: number): void;
+};
+
+/**
+ * The lines of [start, end) (end just after an LF, or the end of the file) into `columns` from row n0 on,
+ * before the units' factors. Answers the columns (new ones if they had to grow), the row after the last
+ * point, the line number after the range and the skipped points.
+ */
+function parseBody(
+  b: Uint8Array,
+  mapping: ColumnMapping,
+  header: HeaderInfo,
+  columns0: LogColumns,
+  cap0: number,
+  range: BodyRange,
+) {
+  const { columns, delimiter } = header;
+  const maxLineBytes = range.maxLineBytes;
+  const len = b.length;
+  const end = range.end;
+  const delim = delimiter.charCodeAt(0);
+  const decimalComma = delimiter === ';';
+  let cap = cap0;
+  let out = columns0;
   let plan = makePlan(mapping, columns, out);
   let tCol = out.t;
   let lonCol = out.lon;
   let latCol = out.lat;
   const grow = () => {
+    if (range.fixedCapacity) throw new Error('the columns were sized too small for the lines');
     cap = Math.ceil(cap * 1.5) + 64;
     out = grown(out, cap);
     plan = makePlan(mapping, columns, out);
@@ -1118,12 +1306,12 @@ export function parseLogCsv(
   const safeEnd = b.lastIndexOf(LF) + 1;
   const fast = new FastRow(plan, delim, decimalComma, len);
 
-  let n = 0;
-  let line = header.dataLine;
-  let p = header.dataStart;
-  while (p < len) {
+  let n = range.n0;
+  let line = range.firstLine;
+  let p = range.start;
+  while (p < end) {
     const lineStart = p;
-    if ((line & 0xffff) === 0) opts.onProgress?.(p / len);
+    if ((line & 0xffff) === 0) range.onProgress?.(p / len);
     if (n === cap) {
       grow();
       fast.plan = plan;
@@ -1207,16 +1395,7 @@ export function parseLogCsv(
     } else n++;
     line++;
   }
-  // The units' factors, one column at a time (value × mul ÷ div: the same arithmetic as shared/units.ts).
-  for (let k = 0; k < columns.length; k++) {
-    const mul = plan.mul[k];
-    const div = plan.div[k];
-    if (plan.kind[k] !== K_NUMBER || (mul === 1 && div === 1)) continue;
-    const a = plan.num[k];
-    for (let i = 0; i < n; i++) a[i] = (a[i] * mul) / div;
-  }
-  opts.onProgress?.(1);
-  return { ...shrink(out, n), skipped };
+  return { out, n, line, skipped };
 }
 
 /* ------------------------------------------------------------------ writer */

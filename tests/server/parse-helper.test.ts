@@ -1,0 +1,61 @@
+import { afterAll, describe, expect, it } from 'vitest';
+import {
+  LogParseError,
+  PARALLEL_MIN_BYTES,
+  parseLogCsv,
+  parseLogCsvParallel,
+  readCsvHeader,
+  suggestMapping,
+} from '../../shared/audit/csv-log';
+import { parseRangeInHelper, stopParseHelper } from '../../server/logs/parse-helper';
+
+afterAll(() => stopParseHelper());
+
+/** A CSV log just over the size read by two threads, in shared memory; row `bad` holds a value that does not read. */
+function bigLog(bad = -1) {
+  const lines = ['time (s),lon,lat,target (seeds/ac),applied (seeds/ac)'];
+  for (let i = 0; lines.length * 60 < PARALLEL_MIN_BYTES * 1.2; i++)
+    lines.push(
+      `${1_800_000_000 + i / 10},${(-93.6 + (i % 5000) * 1e-6).toFixed(9)},${(42 + Math.floor(i / 5000) * 8e-5).toFixed(9)},${i === bad ? '3x' : 32000 + (i % 9) * 125},${31900 + (i % 13) * 20}`,
+    );
+  const plain = new TextEncoder().encode(`${lines.join('\n')}\n`);
+  const bytes = new Uint8Array(new SharedArrayBuffer(plain.length));
+  bytes.set(plain);
+  const h = readCsvHeader(bytes);
+  return { bytes, mapping: suggestMapping(h.columns, h.sample), rows: lines.length - 1 };
+}
+
+describe('the second parsing thread', () => {
+  it('reads the second half of a large log in a worker: the same columns as one thread', async () => {
+    const { bytes, mapping, rows } = bigLog();
+    expect(bytes.length).toBeGreaterThan(PARALLEL_MIN_BYTES);
+    let asked = 0;
+    const two = await parseLogCsvParallel(bytes, mapping, (job) => {
+      asked++;
+      return parseRangeInHelper(job);
+    });
+    const one = parseLogCsv(bytes, mapping);
+    expect(asked).toBe(1);
+    expect(two.n).toBe(rows);
+    expect(
+      Buffer.from(two.applied.buffer, two.applied.byteOffset, rows * 8).equals(
+        Buffer.from(one.applied.buffer, one.applied.byteOffset, rows * 8),
+      ),
+    ).toBe(true);
+    expect(Array.from(two.lat.subarray(rows - 3))).toEqual(Array.from(one.lat.subarray(rows - 3)));
+  });
+
+  it('names the line of a bad value the worker found, as one thread does', async () => {
+    const { bytes, mapping, rows } = bigLog(0);
+    const late = bigLog(rows - 10);
+    const err = await parseLogCsvParallel(late.bytes, late.mapping, parseRangeInHelper).catch(
+      (e: Error) => e,
+    );
+    expect(err).toBeInstanceOf(LogParseError);
+    expect((err as LogParseError).line).toBe(rows - 10 + 2); // the header is line 1
+    expect(() => parseLogCsv(late.bytes, late.mapping)).toThrow((err as Error).message);
+    // The first half's error wins: line 2 (row 0) in a file whose second half is fine.
+    const early = await parseLogCsvParallel(bytes, mapping, parseRangeInHelper).catch((e: Error) => e);
+    expect((early as LogParseError).line).toBe(2);
+  });
+});
