@@ -15,6 +15,7 @@ import {
   writeSync,
 } from 'node:fs';
 import { spawnSync } from 'node:child_process';
+import http from 'node:http';
 import path from 'node:path';
 import { performance } from 'node:perf_hooks';
 import { fileURLToPath } from 'node:url';
@@ -564,6 +565,48 @@ async function storeProfile(databaseUrl: string, file: string, input: BenchInput
 
 /* ------------------------------------------------------------------ (f) upload to audit ready */
 
+/**
+ * POST multipart/form-data with the file streamed from disk, as a browser sends a chosen file (the whole
+ * file never sits in this process's memory).
+ */
+function uploadMultipart(url: string, cookie: string, fields: Record<string, string>, file: string) {
+  const boundary = `----sowright-bench-${Date.now().toString(16)}`;
+  const head =
+    Object.entries(fields)
+      .map(([k, v]) => `--${boundary}\r\nContent-Disposition: form-data; name="${k}"\r\n\r\n${v}\r\n`)
+      .join('') +
+    `--${boundary}\r\nContent-Disposition: form-data; name="file"; filename="${path.basename(file)}"\r\n` +
+    'Content-Type: text/csv\r\n\r\n';
+  const tail = `\r\n--${boundary}--\r\n`;
+  const length = Buffer.byteLength(head) + statSync(file).size + Buffer.byteLength(tail);
+  return new Promise<{ status: number; body: string }>((resolve, reject) => {
+    const req = http.request(
+      url,
+      {
+        method: 'POST',
+        headers: {
+          cookie,
+          'x-sowright-request': '1',
+          'content-type': `multipart/form-data; boundary=${boundary}`,
+          'content-length': length,
+        },
+      },
+      (res) => {
+        let body = '';
+        res.setEncoding('utf8');
+        res.on('data', (c: string) => (body += c));
+        res.on('end', () => resolve({ status: res.statusCode ?? 0, body }));
+      },
+    );
+    req.on('error', reject);
+    req.write(head);
+    const stream = createReadStream(file, { highWaterMark: 1 << 20 });
+    stream.on('error', reject);
+    stream.on('end', () => req.end(tail));
+    stream.pipe(req, { end: false });
+  });
+}
+
 async function uploadToReady(
   base: string,
   cookie: string,
@@ -573,22 +616,14 @@ async function uploadToReady(
   planterId: string,
 ) {
   const a = api(base, cookie);
-  const bytes = readFileSync(file);
   const db = new pg.Client({ connectionString: databaseUrl, application_name: 'sowright-bench-watch' });
   await db.connect();
   const seen: Record<string, number> = {};
   const t0 = performance.now();
-  const form = new FormData();
-  form.set('prescriptionId', rx.id);
-  form.set('file', new Blob([bytes], { type: 'text/csv' }), path.basename(file));
-  const pres = await fetch(`${base}/api/logs/preview`, {
-    method: 'POST',
-    headers: { cookie, 'x-sowright-request': '1' },
-    body: form,
-  });
-  if (!pres.ok)
-    throw new Error(`POST /api/logs/preview answered ${pres.status}: ${(await pres.text()).slice(0, 400)}`);
-  const preview = (await pres.json()) as { fileId: string; suggested: unknown; remembered: unknown };
+  const pres = await uploadMultipart(`${base}/api/logs/preview`, cookie, { prescriptionId: rx.id }, file);
+  if (pres.status !== 200)
+    throw new Error(`POST /api/logs/preview answered ${pres.status}: ${pres.body.slice(0, 400)}`);
+  const preview = JSON.parse(pres.body) as { fileId: string; suggested: unknown; remembered: unknown };
   const tPreview = performance.now();
   const log = await a.send<{ id: string }>('POST', '/api/logs', {
     fileId: preview.fileId,

@@ -87,7 +87,17 @@ export function cellColumns(logId: string, out: PipelineOutput): { name: string;
     { name: 'applied', column: { type: 'float4', values: c.applied } },
     { name: 'applied_true', column: { type: 'float4', values: c.appliedTrue } },
     { name: 'speed', column: { type: 'float4', values: c.speed } },
+    { name: 'err', column: { type: 'float4', values: errorPct(c.applied, c.target, c.length) } },
+    { name: 'true_err', column: { type: 'float4', values: errorPct(c.appliedTrue, c.target, c.length) } },
   ];
+}
+
+/** Applied against target, %, to 0.01 (NaN where either is missing or the target is 0). */
+function errorPct(applied: ArrayLike<number>, target: ArrayLike<number>, n: number): Float64Array {
+  const out = new Float64Array(n);
+  for (let i = 0; i < n; i++)
+    out[i] = target[i] === 0 ? Number.NaN : Math.round((10_000 * (applied[i] - target[i])) / target[i]) / 100;
+  return out;
 }
 
 async function contextOf(sequelize: Sequelize, logId: string): Promise<LogContext | null> {

@@ -29,47 +29,51 @@ const newWorker = () => {
     resourceLimits: { maxOldGenerationSizeMb: 2048, maxYoungGenerationSizeMb: 64, stackSizeMb: 4 },
   });
   worker.unref();
-  // A spare that dies while idle is noticed when it is taken (its exit code is set).
-  worker.on('error', () => {});
   return worker;
 };
 
+type Kept = { worker: Worker; busy: boolean; dead: boolean };
+
 /**
- * One worker started ahead (`warmPipelineWorker`), so an import does not wait for a thread to start and load
- * the pipeline's code (about half a second); each run takes it and leaves a fresh one behind.
+ * The pipeline worker is started ahead (`warmPipelineWorker`) and kept for the next log, so an import does
+ * not wait for a thread to start and load the code, and finds its code compiled and its memory already
+ * mapped (on these machines the first touch of fresh memory costs about 3 ms a megabyte). A worker that
+ * failed, timed out or died is dropped and the next log gets a new one; a second log while one is read gets
+ * a worker of its own for that run.
  */
-let spare: { worker: Worker; exited: boolean } | null = null;
+let kept: Kept | null = null;
+
+const keep = (): Kept => {
+  const entry: Kept = { worker: newWorker(), busy: false, dead: false };
+  entry.worker.on('error', () => {
+    entry.dead = true;
+  });
+  entry.worker.once('exit', () => {
+    entry.dead = true;
+  });
+  return entry;
+};
 
 export function warmPipelineWorker() {
-  if (spare && !spare.exited) return;
-  const worker = newWorker();
-  const entry = { worker, exited: false };
-  worker.once('exit', () => {
-    entry.exited = true;
-  });
-  spare = entry;
+  if (!kept || kept.dead) kept = keep();
 }
 
 export async function stopPipelineWorker() {
-  const s = spare;
-  spare = null;
-  if (s && !s.exited) await s.worker.terminate();
+  const k = kept;
+  kept = null;
+  if (k && !k.dead) await k.worker.terminate();
 }
 
-function takeWorker(): Worker {
-  const s = spare;
-  spare = null;
-  if (s && !s.exited) {
-    warmPipelineWorker();
-    return s.worker;
-  }
-  return newWorker();
+function takeWorker(): { entry: Kept; reusable: boolean } {
+  warmPipelineWorker();
+  if (!kept!.busy) return { entry: kept!, reusable: true };
+  return { entry: keep(), reusable: false };
 }
 
 /**
  * Runs the pipeline in a worker thread bounded in heap and time, so a large log never stalls the API and a
  * hostile one cannot exhaust it. Typed arrays come back by transfer, not copy; `onPoints` is told the points
- * to store (a copy) while the worker goes on with the diagnostics.
+ * to store while the worker goes on with the diagnostics.
  */
 export function runPipelineInWorker(
   input: PipelineInput,
@@ -77,38 +81,59 @@ export function runPipelineInWorker(
   onPoints?: (points: StoredPoints) => void,
 ): Promise<PipelineOutput> {
   return new Promise((resolve, reject) => {
-    const worker = takeWorker();
+    const { entry, reusable } = takeWorker();
+    const worker = entry.worker;
+    entry.busy = true;
     worker.ref();
+    let settled = false;
+    const finish = (drop: boolean) => {
+      settled = true;
+      clearTimeout(timer);
+      worker.off('message', onMessage);
+      worker.off('error', onError);
+      worker.off('exit', onExit);
+      entry.busy = false;
+      worker.unref();
+      if (drop || !reusable) {
+        entry.dead = true;
+        void worker.terminate();
+      }
+    };
     const timer = setTimeout(() => {
-      void worker.terminate();
+      finish(true);
       reject(new LogReadError('Reading the log took too long and was stopped', null));
     }, TIMEOUT_MS);
-    worker.on('message', (m: WorkerMessage) => {
+    const onMessage = (m: WorkerMessage) => {
+      if (settled) return;
       if (m.type === 'progress') progress(m.stage, m.fraction);
       else if (m.type === 'points') onPoints?.(m.points);
       else if (m.type === 'done') {
-        clearTimeout(timer);
+        finish(false);
         resolve(m.output);
-        void worker.terminate();
       } else {
-        clearTimeout(timer);
+        // The file could not be read: the worker itself is sound and stays.
+        finish(false);
         const e = m.error;
         reject(new LogReadError(e.message, e.line ?? null));
-        void worker.terminate();
       }
-    });
-    worker.on('error', (err) => {
-      clearTimeout(timer);
+    };
+    const onError = (err: Error) => {
+      if (settled) return;
+      finish(true);
       reject(
         /heap|memory/i.test(err.message)
           ? new LogReadError('The log needs more memory than allowed to read', null)
           : new LogReadError(`The log could not be read: ${err.message}`, null),
       );
-    });
-    worker.on('exit', (code) => {
-      clearTimeout(timer);
-      if (code !== 0) reject(new LogReadError('Reading the log stopped unexpectedly', null));
-    });
+    };
+    const onExit = () => {
+      if (settled) return;
+      finish(true);
+      reject(new LogReadError('Reading the log stopped unexpectedly', null));
+    };
+    worker.on('message', onMessage);
+    worker.on('error', onError);
+    worker.on('exit', onExit);
     // Shared bytes (FileStore.readShared) are shared with the worker; others are handed over.
     const shared = input.bytes.buffer instanceof SharedArrayBuffer;
     worker.postMessage(input, shared ? [] : [input.bytes.buffer as ArrayBuffer]);

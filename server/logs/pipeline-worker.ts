@@ -4,16 +4,16 @@ import type { WorkerMessage } from './pipeline-runner';
 import { startParseHelper } from './parse-helper';
 
 /**
- * The worker side: waits for one input, runs the pipeline, posts progress, then a copy of the points to
+ * The worker side: for each input (one at a time), runs the pipeline, posts progress, then the points to
  * store as soon as the audit has them (the import starts its COPY while the diagnostics run here), then the
- * result by transfer. One run per worker: the runner ends it afterwards, which frees its memory.
+ * result by transfer. The runner keeps the worker for the next log.
  */
 const post = (m: WorkerMessage, transfer: ArrayBuffer[] = []) => parentPort!.postMessage(m, transfer);
 
 // The second parsing thread starts while this worker waits for its log.
 startParseHelper();
 
-parentPort!.once('message', async (input: PipelineInput) => {
+parentPort!.on('message', async (input: PipelineInput) => {
   try {
     let last = 0;
     const output = await runPipeline(

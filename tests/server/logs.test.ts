@@ -266,6 +266,9 @@ describe('the audit', () => {
         const p = layer.feature(i).properties;
         expect(typeof p.applied).toBe('number');
         errs.push(Number(p.err));
+        // err is applied against target in % (to 0.01; the rates travel as single-precision floats).
+        const err = (100 * (Number(p.applied) - Number(p.target))) / Number(p.target);
+        expect(Math.abs(Number(p.err) - err)).toBeLessThan(0.02);
         const [px, py] = layer
           .feature(i)
           .loadGeometry()[0]

@@ -17,15 +17,14 @@ async function hasCells(logId: string) {
 
 /**
  * A tile at zooms 12–18 from the cells averaged at import (shared/audit/tile-cells.ts), already in tile
- * coordinates: at most 128 × 128 points, read through an index.
+ * coordinates: at most 128 × 128 points, read through an index; values single precision, errors computed
+ * at import (migration 0010).
  */
 async function cellTile(logId: string, z: number, x: number, y: number): Promise<Buffer> {
   const [row] = await Prescription.sequelize!.query<{ tile: Buffer | null }>(
     `SELECT ST_AsMVT(q, 'points', ${TILE_EXTENT}, 'g') AS tile FROM (
        SELECT ST_MakePoint(c.gx * ${CELL_SIZE} + ${CELL_SIZE / 2}, c.gy * ${CELL_SIZE} + ${CELL_SIZE / 2}) AS g,
-              round((100 * (c.applied - c.target) / NULLIF(c.target, 0))::numeric, 2)::float8 AS err,
-              round((100 * (c.applied_true - c.target) / NULLIF(c.target, 0))::numeric, 2)::float8 AS true_err,
-              c.applied::float8 AS applied, c.target::float8 AS target, c.speed::float8 AS speed, c.n
+              c.err, c.true_err, c.applied, c.target, c.speed, c.n
          FROM as_applied_cells c
         WHERE c.log_id = :logId AND c.z = :z AND c.tx = :x AND c.ty = :y) q`,
     { replacements: { logId, z, x, y }, type: QueryTypes.SELECT },
