@@ -2,6 +2,7 @@ import { parentPort } from 'node:worker_threads';
 import { runPipeline, storedPointsOf, type PipelineInput } from './pipeline';
 import type { WorkerMessage } from './pipeline-runner';
 import { startParseHelper } from './parse-helper';
+import { warmUpPipeline } from './pipeline-warm-up';
 
 /**
  * The worker side: for each input (one at a time), runs the pipeline, posts progress, then the points to
@@ -10,10 +11,13 @@ import { startParseHelper } from './parse-helper';
  */
 const post = (m: WorkerMessage, transfer: ArrayBuffer[] = []) => parentPort!.postMessage(m, transfer);
 
-// The second parsing thread starts while this worker waits for its log.
+// The second parsing thread starts, and the pipeline runs once on an invented log, while this worker waits
+// for its first log; a log that comes sooner waits for the warm-up (it is short).
 startParseHelper();
+const warm = warmUpPipeline().catch((err: Error) => process.stderr.write(`[logs] warm-up: ${err.message}\n`));
 
 parentPort!.on('message', async (input: PipelineInput) => {
+  await warm;
   try {
     let last = 0;
     const output = await runPipeline(

@@ -245,7 +245,8 @@ describe('the audit', () => {
       (l: { status: string }) => l.status === 'ready',
     );
     // The tiles holding a point inside the field (tests/helpers/factory.ts: −93.6 … −93.595, 42.0 … 42.005):
-    // zooms 15 and 18 are served from the cells averaged at import, zoom 19 from the stored points.
+    // zooms 15 and 18 are served from the cells averaged at import (zoom 15 from zoom 14's), zoom 19 from
+    // the stored points.
     const lon = -93.5975;
     const lat = 42.0025;
     for (const z of [15, 18, 19]) {
@@ -275,6 +276,9 @@ describe('the audit', () => {
           .map((pt) => [pt.x, pt.y])[0];
         expect(px).toBeGreaterThanOrEqual(0);
         expect(py).toBeLessThanOrEqual(layer.extent);
+        // Zoom 15 shows its quarter of zoom 14's cells: 64 a side, centres on a 64-unit grid of the 4096 extent.
+        if (z === 15) expect([px % 64, py % 64]).toEqual([32, 32]);
+        if (z === 18) expect([px % 32, py % 32]).toEqual([16, 16]);
       }
       // The logged rate was on target: errors centre near zero at every zoom.
       const mean = errs.reduce((a, b) => a + b, 0) / errs.length;

@@ -59,3 +59,20 @@ describe('the second parsing thread', () => {
     expect((early as LogParseError).line).toBe(2);
   });
 });
+
+describe('the pipeline worker warm-up', () => {
+  it('runs the whole pipeline on its invented log (outside tests), and nothing under NODE_ENV=test', async () => {
+    const { warmUpPipeline } = await import('../../server/logs/pipeline-warm-up');
+    const was = process.env.NODE_ENV;
+    try {
+      process.env.NODE_ENV = 'test';
+      const t0 = Date.now();
+      await warmUpPipeline();
+      expect(Date.now() - t0).toBeLessThan(50); // skipped
+      process.env.NODE_ENV = 'production';
+      await expect(warmUpPipeline()).resolves.toBeUndefined();
+    } finally {
+      process.env.NODE_ENV = was;
+    }
+  });
+});

@@ -4,8 +4,6 @@ import { getLog } from './log.service';
 import { CELL_ZOOMS, CELLS_PER_TILE as CELL_COLUMNS, TILE_EXTENT } from '../../../shared/audit/tile-cells';
 import type { Actor } from '../../types';
 
-const CELL_SIZE = TILE_EXTENT / CELL_COLUMNS;
-
 /** Logs read before the cells existed have none until they are read again: those tiles come from the points. */
 async function hasCells(logId: string) {
   const [row] = await Prescription.sequelize!.query<{ has: boolean }>(
@@ -16,18 +14,39 @@ async function hasCells(logId: string) {
 }
 
 /**
+ * Zooms whose tiles show the cells of the zoom above (a quarter of its tile, 64 cells a side instead of 128):
+ * there one field fills one or two whole tiles, and 128 × 128 cells made tiles of 300 KB and 50–100 ms.
+ */
+const COARSE_ZOOMS = new Set([13, 14, 15]);
+
+/**
  * A tile at zooms 12–18 from the cells averaged at import (shared/audit/tile-cells.ts), already in tile
  * coordinates: at most 128 × 128 points, read through an index; values single precision, errors computed
  * at import (migration 0010).
  */
 async function cellTile(logId: string, z: number, x: number, y: number): Promise<Buffer> {
+  const coarse = COARSE_ZOOMS.has(z);
+  const side = coarse ? CELL_COLUMNS / 2 : CELL_COLUMNS;
+  const size = TILE_EXTENT / side;
+  const [ox, oy] = coarse ? [(x & 1) * side, (y & 1) * side] : [0, 0];
   const [row] = await Prescription.sequelize!.query<{ tile: Buffer | null }>(
     `SELECT ST_AsMVT(q, 'points', ${TILE_EXTENT}, 'g') AS tile FROM (
-       SELECT ST_MakePoint(c.gx * ${CELL_SIZE} + ${CELL_SIZE / 2}, c.gy * ${CELL_SIZE} + ${CELL_SIZE / 2}) AS g,
+       SELECT ST_MakePoint((c.gx - :ox) * ${size} + ${size / 2}, (c.gy - :oy) * ${size} + ${size / 2}) AS g,
               c.err, c.true_err, c.applied, c.target, c.speed, c.n
          FROM as_applied_cells c
-        WHERE c.log_id = :logId AND c.z = :z AND c.tx = :x AND c.ty = :y) q`,
-    { replacements: { logId, z, x, y }, type: QueryTypes.SELECT },
+        WHERE c.log_id = :logId AND c.z = :cz AND c.tx = :cx AND c.ty = :cy
+          AND c.gx >= :ox AND c.gx < :ox + ${side} AND c.gy >= :oy AND c.gy < :oy + ${side}) q`,
+    {
+      replacements: {
+        logId,
+        cz: coarse ? z - 1 : z,
+        cx: coarse ? x >> 1 : x,
+        cy: coarse ? y >> 1 : y,
+        ox,
+        oy,
+      },
+      type: QueryTypes.SELECT,
+    },
   );
   return row?.tile ?? Buffer.alloc(0);
 }
