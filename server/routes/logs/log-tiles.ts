@@ -4,11 +4,14 @@ import { getLog } from './log.service';
 import { CELL_ZOOMS, CELLS_PER_TILE as CELL_COLUMNS, TILE_EXTENT } from '../../../shared/audit/tile-cells';
 import type { Actor } from '../../types';
 
-/** Logs read before the cells existed have none until they are read again: those tiles come from the points. */
-async function hasCells(logId: string) {
+/**
+ * Whether the log has cells at zoom z: logs read before the cells existed (or before zoom 18 had them) have
+ * none there until they are read again, and those tiles come from the points.
+ */
+async function hasCells(logId: string, z: number) {
   const [row] = await Prescription.sequelize!.query<{ has: boolean }>(
-    'SELECT EXISTS (SELECT 1 FROM as_applied_cells WHERE log_id = :logId) AS has',
-    { replacements: { logId }, type: QueryTypes.SELECT },
+    'SELECT EXISTS (SELECT 1 FROM as_applied_cells WHERE log_id = :logId AND z = :z) AS has',
+    { replacements: { logId, z }, type: QueryTypes.SELECT },
   );
   return row.has;
 }
@@ -64,7 +67,10 @@ const CELLS_PER_TILE = 256;
  */
 export async function logTile(actor: Actor, logId: string, z: number, x: number, y: number): Promise<Buffer> {
   await getLog(actor, logId);
-  if ((CELL_ZOOMS as readonly number[]).includes(z) && (await hasCells(logId)))
+  if (
+    (CELL_ZOOMS as readonly number[]).includes(z) &&
+    (await hasCells(logId, COARSE_ZOOMS.has(z) ? z - 1 : z))
+  )
     return cellTile(logId, z, x, y);
   const cell = WORLD_M / 2 ** z / CELLS_PER_TILE;
   const [row] = await Prescription.sequelize!.query<{ tile: Buffer | null }>(
