@@ -76,9 +76,14 @@ const M_PER_PX_Z0 = 40_075_016.68557849 / 512;
  */
 function radiusBySwath(swathM: number, lat: number): ExpressionSpecification {
   const stops: number[] = [];
-  for (let z = 8; z <= 22; z += 2) {
+  for (let z = 8; z <= 22; z += 1) {
     const mPerPx = (M_PER_PX_Z0 * Math.cos((lat * Math.PI) / 180)) / 2 ** z;
-    stops.push(z, Math.max(1.2, (0.6 * swathM) / mPerPx));
+    // The server's tiles (512 px at map zoom z + 1) hold averaged cells, 64 a side at tile zooms 13–15 and
+    // 128 a side at 12 and 16–18 (server/routes/logs/log-tiles.ts): a dot never smaller than 0.75 × √2 of the
+    // spacing of the cells, so neighbouring cells touch instead of leaving a grid of dots.
+    const tileZ = z - 1;
+    const cellPx = tileZ >= 13 && tileZ <= 15 ? 8 : tileZ <= 18 ? 4 : 4 * 2 ** (tileZ - 18);
+    stops.push(z, Math.max(1.2, (0.6 * swathM) / mPerPx, 0.75 * cellPx * Math.SQRT2));
   }
   return ['interpolate', ['exponential', 2], ['zoom'], ...stops] as ExpressionSpecification;
 }
