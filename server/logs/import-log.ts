@@ -73,7 +73,7 @@ export function pointColumns(logId: string, out: StoredPoints): { name: string; 
 }
 
 /** A log's tile cells as binary COPY columns. */
-export function cellColumns(logId: string, out: PipelineOutput): { name: string; column: BinaryColumn }[] {
+export function cellColumns(logId: string, out: StoredPoints): { name: string; column: BinaryColumn }[] {
   const c = out.cells;
   return [
     { name: 'log_id', column: { type: 'uuid', value: logId } },
@@ -211,6 +211,8 @@ export async function importLog(deps: ImportDeps, logId: string) {
         store.catch(() => {});
       },
     );
+    // Both reading threads are done with the bytes (the worker answered): kept for the next log.
+    deps.files.releaseShared(bytes);
     await pending;
     await setStatus('storing', 0);
     const client = await (store ?? beginStore(deps, ctx, output));
@@ -241,8 +243,8 @@ export async function importLog(deps: ImportDeps, logId: string) {
 
 /**
  * Storing is ONE transaction on a connection of our own: it opens as soon as the points are known and COPYs
- * them into a new table (store-points.ts); `finishStore` adds the cells, the audit, the logbook and the
- * status, attaches the tables and commits. Any failure rolls all of it back.
+ * them and their tile cells into new tables (store-points.ts); `finishStore` adds the audit, the logbook and
+ * the status, attaches the tables and commits. Any failure rolls all of it back.
  */
 async function beginStore(deps: ImportDeps, ctx: LogContext, points: StoredPoints): Promise<pg.Client> {
   const client = new pg.Client({
@@ -254,6 +256,7 @@ async function beginStore(deps: ImportDeps, ctx: LogContext, points: StoredPoint
   try {
     await client.query('BEGIN');
     await copyLogTable(client, 'points', ctx.id, points.columns.n, pointColumns(ctx.id, points));
+    await copyLogTable(client, 'cells', ctx.id, points.cells.length, cellColumns(ctx.id, points));
     return client;
   } catch (err) {
     await endStore(client, false);
@@ -282,7 +285,6 @@ async function finishStore(client: pg.Client, ctx: LogContext, out: PipelineOutp
        WHERE audits.status = 'open'`,
       [ctx.workspaceId, ctx.growerId, ctx.id, out.result.bandFraction, JSON.stringify(out.result)],
     );
-    await copyLogTable(client, 'cells', ctx.id, out.cells.length, cellColumns(ctx.id, out));
     await addToLogbook(client, ctx, out);
     await client.query(
       `UPDATE as_applied_logs SET status = 'ready', progress = 1, points_read = $2, points_kept = $3,

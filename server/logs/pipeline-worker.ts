@@ -52,6 +52,7 @@ parentPort!.on('message', async (input: PipelineInput) => {
       output.trueApplied,
       output.area,
       ...c.rows.map((r) => r.values),
+      ...Object.values(output.cells).filter((v): v is Float64Array => ArrayBuffer.isView(v)),
     ]) {
       if (a && !(a.buffer instanceof SharedArrayBuffer)) buffers.add(a.buffer as ArrayBuffer);
     }

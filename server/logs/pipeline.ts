@@ -86,6 +86,8 @@ export type PipelinePoints = {
   removedBy: Uint8Array;
   trueApplied: Float64Array | null;
   area: Float64Array;
+  /** The kept points averaged per map cell at zooms 12–18 (the vector tiles read these). */
+  cells: TileCells;
 };
 
 /** The part of the points that is stored (server/logs/import-log.ts pointColumns), small enough to copy. */
@@ -107,8 +109,6 @@ export type PipelineOutput = PipelinePoints & {
   meteredOn: 'wheel' | 'radar' | 'gnss';
   /** What the log adds to the planter's lifetime counters. */
   logbook: LogbookTotals;
-  /** The kept points averaged per map cell at the middle zooms (the vector tiles read these). */
-  cells: TileCells;
 };
 
 /** The speed the controller metered on: the log's own speed-source column when it has one, else the setting. */
@@ -169,6 +169,9 @@ export async function runPipeline(
     removedBy: cleaned.removedBy,
     trueApplied,
     area,
+    // The map's cells are for storing and serving tiles, not part of the audit: skipped with the diagnostics.
+    cells:
+      input.diagnose === false ? emptyTileCells() : tileCells(cleaned.columns, cleaned.keep, trueApplied),
   };
   onPoints?.(points);
   const diagnostics =
@@ -187,9 +190,6 @@ export async function runPipeline(
     result: { ...result, findings, diagnostics },
     meteredOn,
     logbook: logbookTotals(cleaned.columns, cleaned.removedBy, area, trueApplied, input.fallbackWidthM),
-    // The map's cells are for storing and serving tiles, not part of the audit: skipped with the diagnostics.
-    cells:
-      input.diagnose === false ? emptyTileCells() : tileCells(cleaned.columns, cleaned.keep, trueApplied),
   };
 }
 

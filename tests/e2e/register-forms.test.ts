@@ -53,7 +53,8 @@ describe('register forms, as the demo agronomist', () => {
 
     await page.getByRole('link', { name: 'Add farm' }).click();
     await page.getByRole('heading', { level: 1, name: 'Add a farm' }).waitFor();
-    expect(await chosenOption(page.getByLabel('Grower'))).toBe(growerName);
+    // The growers list loads after the heading: wait for the chosen grower rather than read it at once.
+    await expect.poll(() => chosenOption(page.getByLabel('Grower'))).toBe(growerName);
     await page.getByLabel('Name').fill(farmName);
     await page.getByRole('button', { name: 'Add farm', exact: true }).click();
     await page.waitForURL(`${baseUrl}/growers/${growerId}`);
@@ -61,7 +62,7 @@ describe('register forms, as the demo agronomist', () => {
 
     await page.getByRole('link', { name: 'Add field' }).click();
     await page.getByRole('heading', { level: 1, name: 'Add a field' }).waitFor();
-    expect(await chosenOption(page.getByLabel('Grower'))).toBe(growerName);
+    await expect.poll(() => chosenOption(page.getByLabel('Grower'))).toBe(growerName);
     await page.getByLabel('Farm').selectOption({ label: farmName });
     await page.getByLabel('Name').fill(fieldName);
     await submitAndOpen(page, 'Add field', fieldName);
@@ -100,7 +101,7 @@ describe('register forms, as the demo agronomist', () => {
     await openPage(page, baseUrl, `/growers/${grower.id}`, grower.name);
     await page.getByRole('link', { name: 'Add planter' }).click();
     await page.getByRole('heading', { level: 1, name: 'Add a planter' }).waitFor();
-    expect(await chosenOption(page.getByLabel('Grower'))).toBe(grower.name);
+    await expect.poll(() => chosenOption(page.getByLabel('Grower'))).toBe(grower.name);
 
     await page.getByLabel('Name').fill(planterName);
     await page.getByLabel('Rows', { exact: true }).fill('24');

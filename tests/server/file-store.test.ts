@@ -57,3 +57,22 @@ describe('streaming an upload to the file store', () => {
     expect(existsSync(outside)).toBe(true);
   });
 });
+
+describe('reading a kept log into shared memory', () => {
+  it('reads into the buffer of the last log when it is large enough, and never into one still in use', async () => {
+    const store = new FileStore(mkdtempSync(path.join(os.tmpdir(), 'sowright-shared-')));
+    const big = await store.adopt(await store.receive(Readable.from([Buffer.alloc(300_000, 7)])));
+    const small = await store.adopt(await store.receive(Readable.from([Buffer.from('time,lat\n1,2\n')])));
+    const first = await store.readShared(big.sha256);
+    expect(first.buffer).toBeInstanceOf(SharedArrayBuffer);
+    expect(first.length).toBe(300_000);
+    // Not released yet: another read gets a buffer of its own.
+    const other = await store.readShared(small.sha256);
+    expect(other.buffer).not.toBe(first.buffer);
+    store.releaseShared(first);
+    const again = await store.readShared(small.sha256);
+    expect(again.buffer).toBe(first.buffer);
+    expect(Buffer.from(again).toString()).toBe('time,lat\n1,2\n');
+    await rm(store.dir, { recursive: true, force: true });
+  });
+});
