@@ -66,7 +66,52 @@ const CELLS_PER_TILE = 256;
  * target (SI), speed (GNSS, else wheel, m/s).
  */
 export async function logTile(actor: Actor, logId: string, z: number, x: number, y: number): Promise<Buffer> {
-  await getLog(actor, logId);
+  const log = await getLog(actor, logId);
+  // A log's tiles do not change until it is read again, which moves its version: kept by (log, version).
+  const key = `${logId}:${log.version}:${z}/${x}/${y}`;
+  const kept = recentTiles.get(key);
+  if (kept) return kept;
+  const tile = await makeTile(logId, z, x, y);
+  recentTiles.set(key, tile);
+  return tile;
+}
+
+/**
+ * The tiles made lately, least recently used first out, within a memory budget: the audit page's maps ask
+ * for the same tiles (the error map and the rate map share them), and so does a map panned back. Scope is
+ * checked before (getLog), so a kept tile only reaches someone who may read the log.
+ */
+export class TileMemory {
+  private tiles = new Map<string, Buffer>();
+  private bytes = 0;
+  constructor(private readonly maxBytes: number) {}
+
+  get(key: string) {
+    const t = this.tiles.get(key);
+    if (t) {
+      this.tiles.delete(key);
+      this.tiles.set(key, t);
+    }
+    return t;
+  }
+
+  set(key: string, tile: Buffer) {
+    if (tile.length > this.maxBytes) return;
+    const before = this.tiles.get(key);
+    if (before) this.bytes -= before.length;
+    this.tiles.set(key, tile);
+    this.bytes += tile.length;
+    for (const [k, t] of this.tiles) {
+      if (this.bytes <= this.maxBytes) break;
+      this.tiles.delete(k);
+      this.bytes -= t.length;
+    }
+  }
+}
+
+const recentTiles = new TileMemory(64 * 1024 * 1024);
+
+async function makeTile(logId: string, z: number, x: number, y: number): Promise<Buffer> {
   if (
     (CELL_ZOOMS as readonly number[]).includes(z) &&
     (await hasCells(logId, COARSE_ZOOMS.has(z) ? z - 1 : z))
