@@ -3,7 +3,7 @@ import pg from 'pg';
 import type { MultiPolygon } from 'geojson';
 import type { FileStore } from './file-store';
 import type { BinaryColumn } from './copy-binary';
-import { attachLogTables, copyLogTable } from './store-points';
+import { attachLogTables, copyLogTable, partitionName } from './store-points';
 import { runPipelineInWorker, LogReadError } from './pipeline-runner';
 import type { PipelineOutput, StoredPoints } from './pipeline';
 import { cleaningSettingsSchema, columnMappingSchema } from '../../shared/schemas/as-applied.schema';
@@ -225,6 +225,7 @@ export async function importLog(deps: ImportDeps, logId: string) {
     // A storing transaction still open (the pipeline failed after the points were known) stores nothing.
     const open = await (store as Promise<pg.Client> | null)?.catch(() => null);
     if (open) await endStore(open, false);
+    await dropUnattached(sequelize, logId).catch(() => {});
     // Progress writes still queued must land before `failed`, never after it.
     await pending.catch(() => {});
     // A reading error names its line; anything else (the database, the disk) stored nothing and says so.
@@ -247,21 +248,48 @@ export async function importLog(deps: ImportDeps, logId: string) {
  * the status, attaches the tables and commits. Any failure rolls all of it back.
  */
 async function beginStore(deps: ImportDeps, ctx: LogContext, points: StoredPoints): Promise<pg.Client> {
+  const client = await connect(deps);
+  // The cells go into their table on a second connection at the same time (the database has two cores);
+  // that table is only attached by the main transaction, so until it commits the cells are not the log's.
+  const cells = copyCellsApart(deps, ctx, points);
+  try {
+    await client.query('BEGIN');
+    await copyLogTable(client, 'points', ctx.id, points.columns.n, pointColumns(ctx.id, points));
+    await cells;
+    return client;
+  } catch (err) {
+    await cells.catch(() => {});
+    await endStore(client, false);
+    throw err;
+  }
+}
+
+async function connect(deps: ImportDeps) {
   const client = new pg.Client({
     connectionString: deps.databaseUrl,
     application_name: 'sowright-log-import',
   });
   client.on('error', () => {});
   await client.connect();
+  return client;
+}
+
+/** The log's tile cells into a new, unattached table, committed on a connection of their own. */
+async function copyCellsApart(deps: ImportDeps, ctx: LogContext, points: StoredPoints) {
+  const client = await connect(deps);
   try {
     await client.query('BEGIN');
-    await copyLogTable(client, 'points', ctx.id, points.columns.n, pointColumns(ctx.id, points));
     await copyLogTable(client, 'cells', ctx.id, points.cells.length, cellColumns(ctx.id, points));
-    return client;
+    await endStore(client, true);
   } catch (err) {
     await endStore(client, false);
     throw err;
   }
+}
+
+/** A failed import leaves no table behind: the cells' table, committed apart, is dropped. */
+async function dropUnattached(sequelize: Sequelize, logId: string) {
+  await sequelize.query(`DROP TABLE IF EXISTS "${partitionName('cells', logId)}_new"`);
 }
 
 async function endStore(client: pg.Client, commit: boolean) {

@@ -161,6 +161,12 @@ describe('importing a log', () => {
     const failed = await settled(w.callers.agronomist, log.id);
     expect(failed.status).toBe('failed');
     expect(await pointCount(log.id)).toBe(0);
+    // No table of the log is left behind (the cells' table is committed apart, and dropped on failure).
+    const [{ left }] = await t.sequelize.query<{ left: number }>(
+      `SELECT count(*)::int AS left FROM pg_class WHERE relkind = 'r' AND relname LIKE :pattern`,
+      { replacements: { pattern: `as_applied_%_${log.id.replace(/-/g, '')}%` }, type: QueryTypes.SELECT },
+    );
+    expect(left).toBe(0);
 
     const done = await readAgain(failed, 0.15);
     expect(await pointCount(log.id)).toBe(done.pointsRead);
