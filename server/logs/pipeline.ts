@@ -17,7 +17,15 @@ import { SPEED_SOURCE_CODE, type LogColumns } from '../../shared/audit/log-colum
 import { pointsFileToCsv } from './points-to-csv';
 import { logbookTotals, type LogbookTotals } from '../../shared/audit/logbook';
 import { tileCells, type TileCells } from '../../shared/audit/tile-cells';
+import { replayAlarms } from '../../shared/audit/alarm-replay';
+import { controllerLag } from '../../shared/audit/controller-lag';
+import { discLimitShortfall } from '../../shared/audit/disc-limit';
+import { rowDiagnostics } from '../../shared/audit/row-diagnostics';
+import { coverageOf } from '../../shared/audit/coverage';
+import type { Diagnostics } from '../../shared/schemas/as-applied.schema';
+import { diagnosticFindings } from '../../shared/audit/diagnostic-findings';
 
+/** No map cells: what the audit alone (`diagnose: false`) answers. */
 const emptyTileCells = (): TileCells => ({
   z: new Int16Array(0),
   tx: new Int32Array(0),
@@ -31,13 +39,6 @@ const emptyTileCells = (): TileCells => ({
   speed: new Float64Array(0),
   length: 0,
 });
-import { replayAlarms } from '../../shared/audit/alarm-replay';
-import { controllerLag } from '../../shared/audit/controller-lag';
-import { discLimitShortfall } from '../../shared/audit/disc-limit';
-import { rowDiagnostics } from '../../shared/audit/row-diagnostics';
-import { coverageOf } from '../../shared/audit/coverage';
-import type { Diagnostics } from '../../shared/schemas/as-applied.schema';
-import { diagnosticFindings } from '../../shared/audit/diagnostic-findings';
 
 export type PipelineStage = 'reading' | 'cleaning' | 'auditing';
 
