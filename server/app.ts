@@ -6,7 +6,14 @@ import { existsSync } from 'node:fs';
 import type { Sequelize } from 'sequelize';
 import { initModels } from './db/associations';
 import { SessionKeys } from './lib/session';
-import { authenticate, cookieSettings, csrfGuard } from './middleware/authenticate';
+import {
+  authenticate,
+  cookieSettings,
+  csrfGuard,
+  loadSessionUser,
+  type SessionRow,
+} from './middleware/authenticate';
+import { SessionCache } from './lib/session-cache';
 import { errorHandler } from './middleware/error-handler';
 import type { Mailer } from './mail/mailer';
 import type { Mailbox } from './mail/smtp-fake';
@@ -44,7 +51,14 @@ export type AppDeps = {
   /** Where log files are kept, and how a log import is queued (server/logs). */
   files: FileStore;
   enqueueLog: (logId: string) => Promise<void>;
+  /** Keep the people behind sessions in memory (server/lib/session-cache.ts); on unless false. */
+  sessionCache?: boolean;
 };
+
+/** The app's resources that outlive a request; `closeApp` releases them. */
+export function closeApp(app: Express) {
+  return (app.locals.sessions as SessionCache<unknown> | undefined)?.stop();
+}
 
 /** Builds the whole app: middleware, routers and the one error handler. It never listens. */
 export function createApp(deps: AppDeps): Express {
@@ -55,6 +69,9 @@ export function createApp(deps: AppDeps): Express {
   app.disable('x-powered-by');
   app.set('trust proxy', deps.trustProxy ?? 0);
   app.set('query parser', 'simple');
+  // API answers are a person's own data: never stored by a browser or a proxy (ASVS 14.3.2), so an ETag
+  // (a SHA-1 of every body) would serve nothing. Static files keep theirs (serve-static sets its own).
+  app.set('etag', false);
   app.use(
     helmet({
       contentSecurityPolicy: {
@@ -72,8 +89,18 @@ export function createApp(deps: AppDeps): Express {
   );
   app.use(cookieParser());
   app.use('/api', express.json({ limit: '2mb' }));
+  app.use('/api', (_req, res, next) => {
+    res.setHeader('Cache-Control', 'no-store');
+    next();
+  });
   app.use('/api', csrfGuard);
-  app.use('/api', authenticate(keys, cookie));
+  let sessions: SessionCache<SessionRow> | undefined;
+  if (deps.sessionCache !== false) {
+    sessions = new SessionCache(deps.sequelize, loadSessionUser);
+    app.locals.sessions = sessions;
+    void sessions.start();
+  }
+  app.use('/api', authenticate(keys, cookie, sessions));
 
   app.use('/api/health', healthRouter(deps.sequelize, deps.version));
   app.use('/api/auth', authRouter({ keys, cookie, mailer: deps.mailer, appUrl: deps.appUrl }));

@@ -2,7 +2,7 @@ import type { AddressInfo } from 'node:net';
 import { loadEnv } from './config/env';
 import { createSequelize } from './db/sequelize';
 import { assertDurable } from './db/durability';
-import { createApp } from './app';
+import { closeApp, createApp } from './app';
 import { createSmtpMailer } from './mail/mailer';
 import { startSmtpFake, type Mailbox } from './mail/smtp-fake';
 import { APP_VERSION } from './lib/version';
@@ -67,6 +67,7 @@ async function main() {
     await new Promise<void>((resolve) => server.close(() => resolve()));
     await logJobs.stop().catch(() => {});
     await mailbox?.close();
+    await closeApp(app);
     await sequelize.close();
     process.exit(0);
   };

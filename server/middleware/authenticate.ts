@@ -4,6 +4,7 @@ import { User } from '../db/associations';
 import { ForbiddenError, UnauthenticatedError } from '../errors';
 import { REFRESH_AFTER_SECONDS, type SessionKeys, type SessionClaims } from '../lib/session';
 import type { Role } from '../../shared/schemas/auth.schema';
+import type { SessionCache } from '../lib/session-cache';
 
 export type CookieSettings = { name: string; secure: boolean };
 
@@ -31,7 +32,7 @@ export function clearSessionCookie(res: Response, cookie: CookieSettings) {
   res.clearCookie(cookie.name, { httpOnly: true, secure: cookie.secure, sameSite: 'strict', path: '/' });
 }
 
-type SessionRow = {
+export type SessionRow = {
   id: string;
   workspace_id: string;
   role: Role;
@@ -41,8 +42,8 @@ type SessionRow = {
   consultant_growers: string[];
 };
 
-/** One round trip per request: the person, and for a consultant the growers they read. */
-async function loadSessionUser(id: string): Promise<SessionRow | null> {
+/** One round trip: the person, and for a consultant the growers they read. */
+export async function loadSessionUser(id: string): Promise<SessionRow | null> {
   const rows = await User.sequelize!.query<SessionRow>(
     `SELECT u.id, u.workspace_id, u.role, u.status, u.token_version, u.grower_id,
             coalesce(array(SELECT cg.grower_id::text FROM consultant_growers cg WHERE cg.user_id = u.id), '{}') AS consultant_growers
@@ -53,10 +54,15 @@ async function loadSessionUser(id: string): Promise<SessionRow | null> {
 }
 
 /**
- * Reads the session cookie, verifies the token and loads the user on every request: a changed token
- * version (sign-out, password change, role change, disabling) ends the session at once.
+ * Reads the session cookie, verifies the token and checks the person on every request: a changed token
+ * version (sign-out, password change, role change, disabling) ends the session at once. The person comes
+ * from `sessions` (kept in memory, dropped when the database says they changed) or from the database.
  */
-export function authenticate(keys: SessionKeys, cookie: CookieSettings): RequestHandler {
+export function authenticate(
+  keys: SessionKeys,
+  cookie: CookieSettings,
+  sessions?: SessionCache<SessionRow>,
+): RequestHandler {
   return async (req: Request, res: Response, next) => {
     try {
       const token = req.cookies?.[cookie.name];
@@ -66,7 +72,7 @@ export function authenticate(keys: SessionKeys, cookie: CookieSettings): Request
         clearSessionCookie(res, cookie);
         return next();
       }
-      const row = await loadSessionUser(claims.sub);
+      const row = sessions ? await sessions.get(claims.sub) : await loadSessionUser(claims.sub);
       if (
         !row ||
         row.workspace_id !== claims.ws ||

@@ -1,7 +1,7 @@
 import { randomBytes, randomUUID } from 'node:crypto';
 import request from 'supertest';
 import type { Express } from 'express';
-import { createApp } from '../../server/app';
+import { closeApp, createApp } from '../../server/app';
 import { createSequelize } from '../../server/db/sequelize';
 import { initModels } from '../../server/db/associations';
 import { createSmtpMailer } from '../../server/mail/mailer';
@@ -73,6 +73,7 @@ export async function startTestApp(opts: { trustProxy?: number } = {}): Promise<
       await logJobs.stop();
       if (!sharedDir) await rm(dataDir, { recursive: true, force: true });
       await mailbox.close();
+      await closeApp(app);
       await sequelize.close();
     },
   };

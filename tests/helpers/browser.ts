@@ -6,7 +6,7 @@ import { createServer } from 'node:http';
 import { chromium, type BrowserContext, type Locator, type Page } from 'playwright-core';
 import { afterAll, afterEach, beforeAll, expect } from 'vitest';
 import { startTestApp, type TestApp } from './app';
-import { createApp } from '../../server/app';
+import { closeApp, createApp } from '../../server/app';
 import { createSmtpMailer } from '../../server/mail/mailer';
 import demoUsers from '../../server/db/demo-users.json';
 import type { Role } from '../../shared/schemas/auth.schema';
@@ -82,24 +82,22 @@ export async function startBrowserWorld(): Promise<BrowserWorld> {
   const server = createServer();
   await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', () => resolve()));
   const baseUrl = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
-  server.on(
-    'request',
-    createApp({
-      sequelize: t.sequelize,
-      jwtSecret: t.jwtSecret,
-      mailer: createSmtpMailer({
-        host: '127.0.0.1',
-        port: t.mailbox.port,
-        from: 'Sowright <test@sowright.invalid>',
-      }),
-      mailbox: t.mailbox,
-      appUrl: baseUrl,
-      version: 'test',
-      clientDir,
-      files: t.files,
-      enqueueLog: t.enqueueLog,
+  const app = createApp({
+    sequelize: t.sequelize,
+    jwtSecret: t.jwtSecret,
+    mailer: createSmtpMailer({
+      host: '127.0.0.1',
+      port: t.mailbox.port,
+      from: 'Sowright <test@sowright.invalid>',
     }),
-  );
+    mailbox: t.mailbox,
+    appUrl: baseUrl,
+    version: 'test',
+    clientDir,
+    files: t.files,
+    enqueueLog: t.enqueueLog,
+  });
+  server.on('request', app);
   const profile = mkdtempSync(path.join(os.tmpdir(), 'sowright-chromium-'));
   const context = await chromium.launchPersistentContext(profile, {
     executablePath: '/usr/bin/chromium',
@@ -152,6 +150,7 @@ export async function startBrowserWorld(): Promise<BrowserWorld> {
       rmSync(profile, { recursive: true, force: true });
       rmSync(clientDir, { recursive: true, force: true });
       await new Promise<void>((resolve) => server.close(() => resolve()));
+      await closeApp(app);
       await t.close();
     },
   };

@@ -3,6 +3,7 @@ import { Op } from 'sequelize';
 import { User, UserToken, Workspace } from '../../db/associations';
 import { ConflictError, InvalidCredentialsError, NotFoundError, ValidationError } from '../../errors';
 import { dummyHash, hashPassword, verifyPassword } from '../../lib/passwords';
+import { forgetSession } from '../../lib/session-cache';
 import type { Mailer } from '../../mail/mailer';
 import type { TokenPurpose } from '../../db/models/user-token.model';
 import type { Me } from '../../../shared/schemas/auth.schema';
@@ -41,6 +42,7 @@ export async function signIn(email: string, password: string): Promise<User> {
 /** Ends every session of the user by moving the token version on. */
 export async function endSessions(userId: string) {
   await User.increment('tokenVersion', { by: 1, where: { id: userId } });
+  forgetSession(userId);
 }
 
 export async function changePassword(userId: string, current: string, next: string): Promise<User> {
@@ -57,6 +59,7 @@ export async function changePassword(userId: string, current: string, next: stri
     { passwordHash: user.passwordHash, tokenVersion: user.tokenVersion },
     { where: { id: user.id } },
   );
+  forgetSession(user.id);
   return user;
 }
 
@@ -110,6 +113,7 @@ export async function resetPassword(token: string, password: string) {
     { passwordHash: await hashPassword(password), tokenVersion: user.tokenVersion + 1 },
     { where: { id: user.id } },
   );
+  forgetSession(user.id);
   row.usedAt = new Date();
   await row.save();
 }
@@ -156,6 +160,7 @@ export async function acceptInvitation(token: string, password: string, name?: s
   user.tokenVersion += 1;
   user.lastSignInAt = new Date();
   await user.save();
+  forgetSession(user.id);
   row.usedAt = new Date();
   await row.save();
   return user;

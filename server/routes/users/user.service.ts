@@ -3,6 +3,7 @@ import type { z } from 'zod';
 import { ConsultantGrower, Grower, User } from '../../db/associations';
 import { ConflictError, NotFoundError } from '../../errors';
 import { assertFound, assertVersion, iso } from '../../lib/scope';
+import { forgetSession } from '../../lib/session-cache';
 import type { Mailer } from '../../mail/mailer';
 import type { Actor } from '../../types';
 import type {
@@ -138,6 +139,7 @@ export async function updateUser(actor: Actor, id: string, input: z.output<typeo
     await user.save({ transaction });
     await writeConsultantGrowers(actor, user.id, growerIds, transaction);
   });
+  forgetSession(user.id);
   return getUser(actor, id);
 }
 
