@@ -39,6 +39,12 @@ try {
     }
     await new Promise((r) => setTimeout(r, 100));
   }
+  // The API is measured in steady state: after the log reader's thread has loaded and run its warm-up.
+  for (let i = 0; i < 600; i++) {
+    const h = await (await fetch(`${url}/api/health`)).json().catch(() => ({}));
+    if (h.logReader === 'ready') break;
+    await new Promise((r) => setTimeout(r, 100));
+  }
   const agronomist = demoUsers().find((u) => u.role === 'agronomist');
   const signIn = await fetch(`${url}/api/auth/sign-in`, {
     method: 'POST',

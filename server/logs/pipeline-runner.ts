@@ -6,6 +6,7 @@ import type { PipelineInput, PipelineOutput, PipelineStage, StoredPoints } from 
 const TIMEOUT_MS = 10 * 60_000;
 
 export type WorkerMessage =
+  | { type: 'warm' }
   | { type: 'progress'; stage: PipelineStage; fraction: number }
   | { type: 'points'; points: StoredPoints }
   | { type: 'done'; output: PipelineOutput }
@@ -32,7 +33,7 @@ const newWorker = () => {
   return worker;
 };
 
-type Kept = { worker: Worker; busy: boolean; dead: boolean };
+type Kept = { worker: Worker; busy: boolean; dead: boolean; warm: boolean };
 
 /**
  * The pipeline worker is started ahead (`warmPipelineWorker`) and kept for the next log, so an import does
@@ -44,7 +45,13 @@ type Kept = { worker: Worker; busy: boolean; dead: boolean };
 let kept: Kept | null = null;
 
 const keep = (): Kept => {
-  const entry: Kept = { worker: newWorker(), busy: false, dead: false };
+  const entry: Kept = { worker: newWorker(), busy: false, dead: false, warm: false };
+  const onWarm = (m: WorkerMessage) => {
+    if (m.type !== 'warm') return;
+    entry.warm = true;
+    entry.worker.off('message', onWarm);
+  };
+  entry.worker.on('message', onWarm);
   entry.worker.on('error', () => {
     entry.dead = true;
   });
@@ -57,6 +64,10 @@ const keep = (): Kept => {
 export function warmPipelineWorker() {
   if (!kept || kept.dead) kept = keep();
 }
+
+/** `starting` until the kept worker has loaded its code and run its warm-up; `/api/health` says it. */
+export const pipelineWorkerState = (): 'ready' | 'starting' =>
+  kept && !kept.dead && kept.warm ? 'ready' : 'starting';
 
 export async function stopPipelineWorker() {
   const k = kept;
@@ -104,7 +115,7 @@ export function runPipelineInWorker(
       reject(new LogReadError('Reading the log took too long and was stopped', null));
     }, TIMEOUT_MS);
     const onMessage = (m: WorkerMessage) => {
-      if (settled) return;
+      if (settled || m.type === 'warm') return;
       if (m.type === 'progress') progress(m.stage, m.fraction);
       else if (m.type === 'points') onPoints?.(m.points);
       else if (m.type === 'done') {

@@ -14,7 +14,9 @@ const post = (m: WorkerMessage, transfer: ArrayBuffer[] = []) => parentPort!.pos
 // The second parsing thread starts, and the pipeline runs once on an invented log, while this worker waits
 // for its first log; a log that comes sooner waits for the warm-up (it is short).
 startParseHelper();
-const warm = warmUpPipeline().catch((err: Error) => process.stderr.write(`[logs] warm-up: ${err.message}\n`));
+const warm = warmUpPipeline()
+  .catch((err: Error) => process.stderr.write(`[logs] warm-up: ${err.message}\n`))
+  .then(() => post({ type: 'warm' }));
 
 parentPort!.on('message', async (input: PipelineInput) => {
   await warm;

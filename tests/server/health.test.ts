@@ -15,6 +15,13 @@ describe('GET /api/health', () => {
     expect(res.body.version).toBe('test');
     expect(res.body.database).toBe('reachable');
     expect(res.body.postgis).toMatch(/^3\.\d+\.\d+/);
+    expect(['starting', 'ready']).toContain(res.body.logReader);
+  });
+
+  it("says when the log reader's thread has started and warmed up", async () => {
+    await expect
+      .poll(async () => (await request(t.app).get('/api/health')).body.logReader, { timeout: 30_000 })
+      .toBe('ready');
   });
 
   it('answers unknown API routes with a 404 in the error shape', async () => {

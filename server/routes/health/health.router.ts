@@ -1,5 +1,6 @@
 import { Router } from 'express';
 import { QueryTypes, type Sequelize } from 'sequelize';
+import { pipelineWorkerState } from '../../logs/pipeline-runner';
 
 export function healthRouter(sequelize: Sequelize, version: string) {
   const router = Router();
@@ -8,7 +9,14 @@ export function healthRouter(sequelize: Sequelize, version: string) {
       const [row] = await sequelize.query<{ postgis: string }>('SELECT postgis_lib_version() AS postgis', {
         type: QueryTypes.SELECT,
       });
-      res.json({ status: 'ok', version, database: 'reachable', postgis: row?.postgis ?? null });
+      res.json({
+        status: 'ok',
+        version,
+        database: 'reachable',
+        postgis: row?.postgis ?? null,
+        // The log reader's thread: `starting` for a few seconds after start while it loads and warms up.
+        logReader: pipelineWorkerState(),
+      });
     } catch {
       res.status(503).json({ status: 'degraded', version, database: 'unreachable', postgis: null });
     }
