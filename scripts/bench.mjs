@@ -52,6 +52,12 @@ try {
     body: JSON.stringify({ email: agronomist.email, password: agronomist.password }),
   });
   const cookie = signIn.headers.get('set-cookie').split(';')[0];
+  // ...and once the demo's logs, queued by the seeder, are imported (they would share the machine with it).
+  for (let i = 0; i < 1200; i++) {
+    const logs = await (await fetch(`${url}/api/logs`, { headers: { cookie } })).json();
+    if (logs.items.every((l) => l.status === 'ready' || l.status === 'failed')) break;
+    await new Promise((r) => setTimeout(r, 100));
+  }
   const growers = await (await fetch(`${url}/api/growers`, { headers: { cookie } })).json();
   const target = `${url}/api/growers/${growers.items[0].id}`;
 

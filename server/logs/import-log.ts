@@ -1,5 +1,6 @@
 import { QueryTypes, type Sequelize } from 'sequelize';
 import pg from 'pg';
+import { appendFileSync } from 'node:fs';
 import type { MultiPolygon } from 'geojson';
 import type { FileStore } from './file-store';
 import type { BinaryColumn } from './copy-binary';
@@ -123,6 +124,18 @@ async function contextOf(sequelize: Sequelize, logId: string): Promise<LogContex
   return row ?? null;
 }
 
+/** SOWRIGHT_IMPORT_TRACE=<file>: each import appends when its steps end (ms since it began), for tuning. */
+const TRACE_FILE = process.env.SOWRIGHT_IMPORT_TRACE;
+function tracer(logId: string) {
+  if (!TRACE_FILE) return () => {};
+  const t0 = performance.now();
+  return (step: string) =>
+    appendFileSync(
+      TRACE_FILE,
+      `${logId.slice(0, 8)} ${(performance.now() - t0).toFixed(0).padStart(6)} ms ${step}\n`,
+    );
+}
+
 /**
  * The background import of one log (a pg-boss job): read the kept file in a worker thread, clean, join,
  * audit; then store every point with COPY and the audit in ONE transaction, replacing what an earlier run
@@ -132,6 +145,7 @@ export async function importLog(deps: ImportDeps, logId: string) {
   const { sequelize } = deps;
   const ctx = await contextOf(sequelize, logId);
   if (!ctx) return;
+  const trace = tracer(logId);
   let pending: Promise<void> = Promise.resolve();
   let store: Promise<pg.Client> | null = null;
   const setStatus = async (status: string, progress: number) => {
@@ -167,7 +181,9 @@ export async function importLog(deps: ImportDeps, logId: string) {
       kind: 'seed' as const,
     };
     const bytes = await deps.files.readShared(ctx.sha256);
+    trace('file read');
     let lastWrite = 0;
+    let lastStage = '';
     const output = await runPipelineInWorker(
       {
         bytes,
@@ -200,6 +216,7 @@ export async function importLog(deps: ImportDeps, logId: string) {
         },
       },
       (stage, fraction) => {
+        if (stage !== lastStage) trace(`stage ${(lastStage = stage)}`);
         const now = Date.now();
         if (now - lastWrite < 400 && fraction !== 1) return;
         lastWrite = now;
@@ -207,17 +224,21 @@ export async function importLog(deps: ImportDeps, logId: string) {
       },
       (points) => {
         // The COPY of the points runs on the database's core while the worker computes the diagnostics.
-        store = beginStore(deps, ctx, points);
+        trace('points from the worker');
+        store = beginStore(deps, ctx, points, trace);
         store.catch(() => {});
       },
     );
     // Both reading threads are done with the bytes (the worker answered): kept for the next log.
     deps.files.releaseShared(bytes);
+    trace('worker done');
     await pending;
     await setStatus('storing', 0);
-    const client = await (store ?? beginStore(deps, ctx, output));
+    const client = await (store ?? beginStore(deps, ctx, output, trace));
+    trace('points and cells copied');
     store = null;
-    await finishStore(client, ctx, output);
+    await finishStore(client, ctx, output, trace);
+    trace('committed');
     await deps
       .onReady?.(logId)
       .catch((err: Error) => process.stderr.write(`[logs] ready mail: ${err.message}\n`));
@@ -247,14 +268,22 @@ export async function importLog(deps: ImportDeps, logId: string) {
  * them and their tile cells into new tables (store-points.ts); `finishStore` adds the audit, the logbook and
  * the status, attaches the tables and commits. Any failure rolls all of it back.
  */
-async function beginStore(deps: ImportDeps, ctx: LogContext, points: StoredPoints): Promise<pg.Client> {
+async function beginStore(
+  deps: ImportDeps,
+  ctx: LogContext,
+  points: StoredPoints,
+  trace: (step: string) => void,
+): Promise<pg.Client> {
   const client = await connect(deps);
   // The cells go into their table on a second connection at the same time (the database has two cores);
   // that table is only attached by the main transaction, so until it commits the cells are not the log's.
-  const cells = copyCellsApart(deps, ctx, points);
+  const cells = copyCellsApart(deps, ctx, points).then(() => trace('cells copied, indexed, committed'));
   try {
     await client.query('BEGIN');
-    await copyLogTable(client, 'points', ctx.id, points.columns.n, pointColumns(ctx.id, points));
+    await copyLogTable(client, 'points', ctx.id, points.columns.n, pointColumns(ctx.id, points), {
+      trace,
+    });
+    trace('points copied and indexed');
     await cells;
     return client;
   } catch (err) {
@@ -301,7 +330,12 @@ async function endStore(client: pg.Client, commit: boolean) {
   }
 }
 
-async function finishStore(client: pg.Client, ctx: LogContext, out: PipelineOutput) {
+async function finishStore(
+  client: pg.Client,
+  ctx: LogContext,
+  out: PipelineOutput,
+  trace: (step: string) => void,
+) {
   try {
     let kept = 0;
     for (let i = 0; i < out.removedBy.length; i++) if (out.removedBy[i] === 0) kept++;
@@ -313,6 +347,7 @@ async function finishStore(client: pg.Client, ctx: LogContext, out: PipelineOutp
        WHERE audits.status = 'open'`,
       [ctx.workspaceId, ctx.growerId, ctx.id, out.result.bandFraction, JSON.stringify(out.result)],
     );
+    trace('audit written');
     await addToLogbook(client, ctx, out);
     await client.query(
       `UPDATE as_applied_logs SET status = 'ready', progress = 1, points_read = $2, points_kept = $3,
@@ -320,7 +355,9 @@ async function finishStore(client: pg.Client, ctx: LogContext, out: PipelineOutp
         WHERE id = $1`,
       [ctx.id, out.pointsRead, kept, JSON.stringify(out.report), out.meteredOn],
     );
+    trace('logbook and status written');
     await attachLogTables(client, ctx.id, ['points', 'cells']);
+    trace('tables attached');
   } catch (err) {
     await endStore(client, false);
     throw err;

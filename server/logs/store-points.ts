@@ -39,7 +39,7 @@ export async function copyLogTable(
   logId: string,
   rows: number,
   columns: { name: string; column: BinaryColumn }[],
-  opts: { index?: boolean } = {},
+  opts: { index?: boolean; trace?: (step: string) => void } = {},
 ): Promise<string> {
   const table = `${partitionName(kind, logId)}_new`;
   await client.query(`DROP TABLE IF EXISTS ${ident(table)}`);
@@ -60,6 +60,7 @@ export async function copyLogTable(
     ),
     copy,
   );
+  opts.trace?.(`${kind} COPY done`);
   if (opts.index !== false) await client.query(`CREATE INDEX ON ${ident(table)} ${PARTITION_INDEX[kind]}`);
   return table;
 }
