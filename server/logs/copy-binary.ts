@@ -79,17 +79,23 @@ function rowWriter(columns: BinaryColumn[]): RowWriter {
 }
 
 /**
- * Yields the binary COPY stream of `rows` rows in chunks of `chunkRows` (the header before the first, the
- * trailer after the last), ready for pg-copy-streams' `COPY … FROM STDIN (FORMAT binary)`. Chunks are kept
- * small (under 128 KB), so their memory comes back from the allocator's heap instead of fresh pages.
+ * Yields the binary COPY stream of rows [`start`, `rows`) in chunks of `chunkRows` (the header before the
+ * first, the trailer after the last), ready for pg-copy-streams' `COPY … FROM STDIN (FORMAT binary)`; a row's
+ * number (`rowNumber`) is its index in the arrays. Chunks are kept small (under 128 KB), so their memory
+ * comes back from the allocator's heap instead of fresh pages.
  */
-export function* binaryCopyChunks(rows: number, columns: BinaryColumn[], chunkRows = 512): Generator<Buffer> {
+export function* binaryCopyChunks(
+  rows: number,
+  columns: BinaryColumn[],
+  chunkRows = 512,
+  start = 0,
+): Generator<Buffer> {
   const rowBytes = 2 + columns.reduce((s, c) => s + 4 + WIDTH[c.type], 0);
   const writeRows = rowWriter(columns);
-  for (let from = 0; from === 0 || from < rows; from += chunkRows) {
-    const to = Math.min(rows, from + chunkRows);
-    const first = from === 0;
-    const last = to === rows;
+  for (let from = start; from === start || from < rows; from += chunkRows) {
+    const to = Math.max(from, Math.min(rows, from + chunkRows));
+    const first = from === start;
+    const last = to >= rows;
     const buf = Buffer.allocUnsafe((first ? HEADER_BYTES : 0) + (to - from) * rowBytes + (last ? 2 : 0));
     const dv = new DataView(buf.buffer, buf.byteOffset, buf.byteLength);
     let o = 0;

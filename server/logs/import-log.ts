@@ -4,7 +4,7 @@ import { appendFileSync } from 'node:fs';
 import type { MultiPolygon } from 'geojson';
 import type { FileStore } from './file-store';
 import type { BinaryColumn } from './copy-binary';
-import { attachLogTables, copyLogTable, partitionName } from './store-points';
+import { apartTables, attachLogTables, copyLogTable, storePoints } from './store-points';
 import { runPipelineInWorker, LogReadError } from './pipeline-runner';
 import type { PipelineOutput, StoredPoints } from './pipeline';
 import { cleaningSettingsSchema, columnMappingSchema } from '../../shared/schemas/as-applied.schema';
@@ -280,9 +280,14 @@ async function beginStore(
   const cells = copyCellsApart(deps, ctx, points).then(() => trace('cells copied, indexed, committed'));
   try {
     await client.query('BEGIN');
-    await copyLogTable(client, 'points', ctx.id, points.columns.n, pointColumns(ctx.id, points), {
+    await storePoints(
+      client,
+      () => connect(deps),
+      ctx.id,
+      points.columns.n,
+      pointColumns(ctx.id, points),
       trace,
-    });
+    );
     trace('points copied and indexed');
     await cells;
     return client;
@@ -316,9 +321,9 @@ async function copyCellsApart(deps: ImportDeps, ctx: LogContext, points: StoredP
   }
 }
 
-/** A failed import leaves no table behind: the cells' table, committed apart, is dropped. */
+/** A failed import leaves no table behind: the tables committed apart (cells, second part of the points) go. */
 async function dropUnattached(sequelize: Sequelize, logId: string) {
-  await sequelize.query(`DROP TABLE IF EXISTS "${partitionName('cells', logId)}_new"`);
+  for (const table of apartTables(logId)) await sequelize.query(`DROP TABLE IF EXISTS "${table}"`);
 }
 
 async function endStore(client: pg.Client, commit: boolean) {

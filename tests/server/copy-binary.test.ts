@@ -14,12 +14,12 @@ beforeAll(async () => {
 });
 afterAll(() => client.end());
 
-async function roundTrip(rows: number, columns: BinaryColumn[], chunkRows: number) {
+async function roundTrip(rows: number, columns: BinaryColumn[], chunkRows: number, start = 0) {
   await client.query('BEGIN');
   await client.query(`CREATE TEMP TABLE copy_check (
       id uuid, k int4, a float8, g geometry(Point, 4326), b real, c smallint, d integer) ON COMMIT DROP`);
   await pipeline(
-    Readable.from(binaryCopyChunks(rows, columns, chunkRows)),
+    Readable.from(binaryCopyChunks(rows, columns, chunkRows, start)),
     client.query(copyFrom('COPY copy_check FROM STDIN (FORMAT binary)')),
   );
   const { rows: out } = await client.query(
@@ -66,6 +66,27 @@ describe('binary COPY', () => {
       expect(r.c).toBe(c[i]);
       expect(r.d).toBe(d[i]);
     });
+  });
+
+  it('writes a range of rows [start, rows), each numbered by its index, and an empty range', async () => {
+    const n = 10;
+    const lon = Float64Array.from({ length: n }, (_, i) => i);
+    const lat = Float64Array.from({ length: n }, (_, i) => -i);
+    const a = Float64Array.from({ length: n }, (_, i) => i * 1.5);
+    const columns: BinaryColumn[] = [
+      { type: 'uuid', value: randomUUID() },
+      { type: 'rowNumber' },
+      { type: 'float8', values: a },
+      { type: 'point4326', lon, lat },
+      { type: 'float4', values: null },
+      { type: 'int2', values: null },
+      { type: 'int4', values: null },
+    ];
+    const tail = await roundTrip(n, columns, 3, 4); // rows 4..9 in chunks of 3 + 3
+    expect(tail.map((r) => [r.k, r.a, r.x, r.y])).toEqual(
+      [4, 5, 6, 7, 8, 9].map((i) => [i, i * 1.5, i, i === 0 ? 0 : -i]),
+    );
+    expect(await roundTrip(n, columns, 3, n)).toEqual([]);
   });
 
   it('writes NULL for a column without values, and a valid stream for no rows', async () => {

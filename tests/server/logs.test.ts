@@ -1,4 +1,4 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it, onTestFinished } from 'vitest';
 import { QueryTypes } from 'sequelize';
 import { VectorTile } from '@mapbox/vector-tile';
 import Pbf from 'pbf';
@@ -10,6 +10,9 @@ import { del, getBytes } from './zone-maps.helpers';
 import { shapefileOf, zipShapefile } from './imports-support';
 import { approvedHalves, logCsvFor, mappingOf, preview, settled, uploadLog } from './logs.helpers';
 import { perAc } from './prescriptions.helpers';
+import { storeSettings } from '../../server/logs/store-points';
+
+const SPLIT_ROWS = storeSettings.splitRows;
 
 let t: TestApp;
 let w: World;
@@ -144,6 +147,11 @@ describe('importing a log', () => {
   });
 
   it('stores nothing half when the database connection dies mid-storage, and a retry stores exactly one copy', async () => {
+    // Points in two parts, the second COPYed and committed on a connection of its own: it must go too.
+    storeSettings.splitRows = 1000;
+    onTestFinished(() => {
+      storeSettings.splitRows = SPLIT_ROWS;
+    });
     const { bytes } = logCsvFor(rx, { noiseCv: 0.03 }, { seed: 44, speedMps: 0.95 });
     const { log } = await uploadLog(w.callers.agronomist, rx, bytes);
     // Wait for the storing step, then kill the import's own connection (as a crash of the database would).
@@ -163,22 +171,39 @@ describe('importing a log', () => {
     expect(await pointCount(log.id)).toBe(0);
     // No table of the log is left behind (the cells' table is committed apart, and dropped on failure).
     const [{ left }] = await t.sequelize.query<{ left: number }>(
-      `SELECT count(*)::int AS left FROM pg_class WHERE relkind = 'r' AND relname LIKE :pattern`,
+      `SELECT count(*)::int AS left FROM pg_class WHERE relkind IN ('r', 'p') AND relname LIKE :pattern`,
       { replacements: { pattern: `as_applied_%_${log.id.replace(/-/g, '')}%` }, type: QueryTypes.SELECT },
     );
     expect(left).toBe(0);
 
     const done = await readAgain(failed, 0.15);
+    expect(done.pointsRead).toBeGreaterThan(1000);
     expect(await pointCount(log.id)).toBe(done.pointsRead);
+    expect(await seqSpan(log.id)).toEqual({
+      n: done.pointsRead,
+      distinct: done.pointsRead,
+      lo: 0,
+      hi: done.pointsRead! - 1,
+    });
   });
 });
+
+/** Every point once: as many distinct `seq` as rows, from 0 without a gap. */
+const seqSpan = async (logId: string) => {
+  const [r] = await t.sequelize.query<{ n: number; distinct: number; lo: number; hi: number }>(
+    `SELECT count(*)::int AS n, count(DISTINCT seq)::int AS distinct, min(seq) AS lo, max(seq) AS hi
+       FROM as_applied_points WHERE log_id = :id`,
+    { replacements: { id: logId }, type: QueryTypes.SELECT },
+  );
+  return r;
+};
 
 describe('where a log is stored', () => {
   const tables = async (logId: string) =>
     t.sequelize.query<{ relname: string; parent: string | null; rows: number }>(
       `SELECT c.relname, p.relname AS parent, c.reltuples::int AS rows
          FROM pg_class c LEFT JOIN pg_inherits i ON i.inhrelid = c.oid LEFT JOIN pg_class p ON p.oid = i.inhparent
-        WHERE c.relkind = 'r' AND c.relname LIKE :pattern ORDER BY c.relname`,
+        WHERE c.relkind IN ('r', 'p') AND c.relname LIKE :pattern ORDER BY c.relname`,
       { replacements: { pattern: `as_applied_%_${logId.replace(/-/g, '')}%` }, type: QueryTypes.SELECT },
     );
 
@@ -188,20 +213,37 @@ describe('where a log is stored', () => {
     const done = await settled(w.callers.agronomist, log.id);
     expect(done.status).toBe('ready');
     const hex = log.id.replace(/-/g, '');
+    // Below the split size: the points' table holds one part.
+    expect(done.pointsRead!).toBeLessThan(SPLIT_ROWS);
     expect((await tables(log.id)).map((r) => [r.relname, r.parent])).toEqual([
       [`as_applied_cells_${hex}`, 'as_applied_cells'],
       [`as_applied_points_${hex}`, 'as_applied_points'],
+      [`as_applied_points_${hex}_0`, `as_applied_points_${hex}`],
     ]);
     const before = await pointCount(log.id);
     expect(before).toBe(done.pointsRead);
 
-    // Read again with another band: the same points, once, in a partition of the same name; no table left over.
+    // Read again with another band, its points now in two parts written at once: the same points, once, in
+    // a partition of the same name; no table left over.
+    storeSettings.splitRows = 1000;
+    onTestFinished(() => {
+      storeSettings.splitRows = SPLIT_ROWS;
+    });
     await readAgain(done, 0.1);
     expect(await pointCount(log.id)).toBe(before);
-    expect((await tables(log.id)).map((r) => r.relname)).toEqual([
-      `as_applied_cells_${hex}`,
-      `as_applied_points_${hex}`,
+    expect(await seqSpan(log.id)).toEqual({ n: before, distinct: before, lo: 0, hi: before - 1 });
+    const parts = await tables(log.id);
+    expect(parts.map((r) => [r.relname, r.parent])).toEqual([
+      [`as_applied_cells_${hex}`, 'as_applied_cells'],
+      [`as_applied_points_${hex}`, 'as_applied_points'],
+      [`as_applied_points_${hex}_0`, `as_applied_points_${hex}`],
+      [`as_applied_points_${hex}_1`, `as_applied_points_${hex}`],
     ]);
+    const [half] = await t.sequelize.query<{ n: number }>(
+      `SELECT count(*)::int AS n FROM "as_applied_points_${hex}_0"`,
+      { type: QueryTypes.SELECT },
+    );
+    expect(half.n).toBe(Math.ceil(before / 2));
     // The stored points are where the file put them: the first row's position, as written (rounded to the
     // file's decimals), to 1e-7 degree (about 1 cm).
     const [row] = await t.sequelize.query<{ lon: number; lat: number; seq: number }>(
