@@ -9,7 +9,16 @@ import path from 'node:path';
 import autocannon from 'autocannon';
 import { freePort, startCluster, stopCluster } from './pg.mjs';
 import { gzipSync } from 'node:zlib';
-import { ensureClientBuild, ensureNodeModules, runTs, runTsSync, demoUsers, say, ROOT } from './setup.mjs';
+import {
+  ensureClientBuild,
+  ensureNodeModules,
+  runTs,
+  runTsSync,
+  demoUsers,
+  say,
+  ROOT,
+  serverEnv,
+} from './setup.mjs';
 
 ensureNodeModules();
 const baseDir = mkdtempSync(path.join(os.tmpdir(), 'sowright-bench-'));
@@ -29,7 +38,7 @@ try {
     SOWRIGHT_DATA_DIR: path.join(baseDir, 'data'),
   };
   runTsSync('server/db/cli.ts', ['seed'], env);
-  server = runTs('server/index.ts', [], { env, stdio: 'ignore' });
+  server = runTs('server/index.ts', [], { env: serverEnv(env), stdio: 'ignore' });
   const url = `http://127.0.0.1:${port}`;
   for (let i = 0; i < 100; i++) {
     try {

@@ -3,7 +3,16 @@
 import { spawn } from 'node:child_process';
 import path from 'node:path';
 import { startCluster, stopCluster } from './pg.mjs';
-import { DATA, ROOT, demoUsers, ensureNodeModules, persistentSecret, runTsSync, say } from './setup.mjs';
+import {
+  DATA,
+  ROOT,
+  demoUsers,
+  ensureNodeModules,
+  persistentSecret,
+  runTsSync,
+  say,
+  serverEnv,
+} from './setup.mjs';
 
 const appPort = Number(process.env.SOWRIGHT_PORT ?? 4280);
 ensureNodeModules();
@@ -24,7 +33,7 @@ runTsSync('server/db/cli.ts', ['seed'], env);
 
 const api = spawn(process.execPath, ['--import', 'tsx', '--watch', path.join(ROOT, 'server/index.ts')], {
   cwd: ROOT,
-  env,
+  env: serverEnv(env),
   stdio: 'inherit',
 });
 const vite = spawn(process.execPath, [path.join(ROOT, 'node_modules/vite/bin/vite.js')], {

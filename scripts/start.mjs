@@ -9,6 +9,7 @@ import {
   ensureNodeModules,
   persistentSecret,
   runTs,
+  serverEnv,
   runTsSync,
   say,
 } from './setup.mjs';
@@ -38,7 +39,7 @@ try {
   runTsSync('server/db/cli.ts', ['seed'], env);
   ensureClientBuild();
 
-  const server = runTs('server/index.ts', [], { env });
+  const server = runTs('server/index.ts', [], { env: serverEnv(env) });
   const shutdown = (signal) => {
     say(`${signal}: stopping the server and the database…`);
     server.kill('SIGTERM');
