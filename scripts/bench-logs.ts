@@ -377,12 +377,19 @@ async function ours(file: string, input: BenchInput, diagnose = false) {
   // the buffer of the run before is reused, as the import reuses the last log's.
   const bytes = await readIntoShared(file, sharedSpare);
   const tRead = performance.now();
+  const rssAt = (what: string) => {
+    if (process.env.BENCH_RSS_TRACE)
+      process.stderr.write(`${what}: rss ${(process.memoryUsage().rss / 2 ** 20).toFixed(0)} MB\n`);
+  };
+  rssAt('read');
   const out = await runPipeline(
     { ...input, bytes, fileName: path.basename(file), format: 'csv', diagnose },
     (stage) => {
+      if (stages[stage] === undefined) rssAt(stage);
       stages[stage] ??= performance.now();
     },
   );
+  rssAt('end');
   const t1 = performance.now();
   sharedSpare = bytes.buffer as SharedArrayBuffer;
   return {

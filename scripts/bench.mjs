@@ -80,9 +80,11 @@ try {
 
   // Targets 1–4: the as-applied workload (scripts/bench-logs.ts) against the same cluster and server.
   const out = path.join(baseDir, 'bench-logs.json');
+  // The pipeline runs in this process as in the server: with the server's allocator settings (serverEnv),
+  // for (a), (b), (c) and the RSS child alike.
   const logs = runTs('scripts/bench-logs.ts', ['run'], {
     env: {
-      ...env,
+      ...serverEnv(env),
       NODE_OPTIONS: `${process.env.NODE_OPTIONS ?? ''} --max-old-space-size=8192`.trim(),
       BENCH_URL: url,
       BENCH_COOKIE: cookie,
@@ -103,7 +105,9 @@ try {
   server?.kill('SIGTERM');
   await new Promise((r) => setTimeout(r, 500));
   if (db) stopCluster(db.dataDir);
-  rmSync(baseDir, { recursive: true, force: true });
+  // BENCH_KEEP=1 keeps the generated logs and inputs (for `bench-logs.ts rss <file> <input.json>` by hand).
+  if (process.env.BENCH_KEEP === '1') say(`kept ${baseDir} (the database folder in it is stopped)`);
+  else rmSync(baseDir, { recursive: true, force: true });
 }
 process.exit(failed ? 1 : 0);
 
