@@ -791,6 +791,12 @@ async function tiles(base: string, cookie: string, logId: string, boundary: Mult
   };
 }
 
+/**
+ * Before each timed sample: a full garbage collection (bench.mjs runs this process with --expose-gc), so no
+ * sample pays for collecting the one before, and the memory it freed is there to reuse.
+ */
+const settle = () => (globalThis as { gc?: () => void }).gc?.();
+
 /** (a)–(d): the floor, our audit, the peer and peak RSS (skipped by `npm run bench -- --storage`). */
 async function computeFigures(
   files: Record<number, string>,
@@ -805,10 +811,12 @@ async function computeFigures(
   const floorMs: number[] = [];
   const oursRuns: Awaited<ReturnType<typeof ours>>[] = [];
   for (let k = 0; k < 3; k++) {
+    settle();
     const t = performance.now();
     const f = parseFloor(files[1_000_000]);
     floorMs.push(performance.now() - t);
     if (f.n !== 1_000_000) throw new Error(`the floor read ${f.n} rows, not 1 000 000`);
+    settle();
     oursRuns.push(await ours(files[1_000_000], input));
   }
   const floor = median(floorMs);
@@ -821,6 +829,7 @@ async function computeFigures(
 
   // Issue "diagnostics": the same pipeline with the diagnostics (alarm replay, lag, disc limit, rows,
   // coverage) on; target 1 is the audit itself, so they are timed apart.
+  settle();
   const withDiagnostics = await ours(files[1_000_000], input, true);
   say(
     `  (b+) with the diagnostics and the map cells: ${fmt(withDiagnostics.ms)} ms, of which diagnostics and cells about ${fmt(withDiagnostics.ms - our.ms)} ms`,
@@ -833,9 +842,11 @@ async function computeFigures(
 
   let big5: { floorMs: number; oursMs: number } | null = null;
   if (big) {
+    settle();
     const t = performance.now();
     parseFloor(files[5_000_000]);
     const fm = performance.now() - t;
+    settle();
     const o = await ours(files[5_000_000], input);
     big5 = { floorMs: fm, oursMs: o.ms };
     say(`  5 M points: floor ${fmt(fm)} ms, ours ${fmt(o.ms)} ms (${fmt(o.ms / fm, 2)}×)`);
@@ -851,6 +862,7 @@ async function computeFigures(
   let peerMs: number;
   let peerNote: string;
   if (p100.ms * 10 < 60_000) {
+    settle();
     const p1m = await peer(
       files[1_000_000],
       input.zones.map((z) => z.geometry),
@@ -881,6 +893,7 @@ function floorOnly(file: string) {
   parseFloor(file);
   const ms: number[] = [];
   for (let k = 0; k < 3; k++) {
+    settle();
     const t = performance.now();
     parseFloor(file);
     ms.push(performance.now() - t);
@@ -991,7 +1004,9 @@ async function main() {
   const psqlRuns: { ms: number; n: number }[] = [];
   const e2eRuns: Awaited<ReturnType<typeof uploadToReady>>[] = [];
   for (const file of uploads) {
+    settle();
     psqlRuns.push(psqlCopy(databaseUrl, files[1_000_000]));
+    settle();
     const r = await uploadToReady(base, cookie, databaseUrl, file, rx, planter.id);
     e2eRuns.push(r);
     say(

@@ -85,7 +85,7 @@ try {
   const logs = runTs('scripts/bench-logs.ts', ['run'], {
     env: {
       ...serverEnv(env),
-      NODE_OPTIONS: `${process.env.NODE_OPTIONS ?? ''} --max-old-space-size=8192`.trim(),
+      NODE_OPTIONS: `${process.env.NODE_OPTIONS ?? ''} --max-old-space-size=8192 --expose-gc`.trim(),
       BENCH_URL: url,
       BENCH_COOKIE: cookie,
       BENCH_DIR: baseDir,

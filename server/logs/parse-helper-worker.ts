@@ -1,5 +1,6 @@
 import { parentPort } from 'node:worker_threads';
 import { LogParseError, parseLogCsvRange, type CsvRangeJob } from '../../shared/audit/csv-log';
+import { collectGarbage } from './collect-garbage';
 
 /** The second parsing thread: reads the ranges it is sent into the shared columns, one at a time. */
 parentPort!.on('message', (job: CsvRangeJob & { id: number }) => {
@@ -16,4 +17,6 @@ parentPort!.on('message', (job: CsvRangeJob & { id: number }) => {
           : { line: null, column: null, detail: e.message },
     });
   }
+  // Let go of the job's shared bytes and columns now, not at the next job (collect-garbage.ts).
+  setImmediate(collectGarbage);
 });

@@ -3,6 +3,7 @@ import { runPipeline, storedPointsOf, type PipelineInput } from './pipeline';
 import type { WorkerMessage } from './pipeline-runner';
 import { startParseHelper } from './parse-helper';
 import { warmUpPipeline } from './pipeline-warm-up';
+import { collectGarbage } from './collect-garbage';
 
 /**
  * The worker side: for each input (one at a time), runs the pipeline, posts progress, then the points to
@@ -16,7 +17,10 @@ const post = (m: WorkerMessage, transfer: ArrayBuffer[] = []) => parentPort!.pos
 startParseHelper();
 const warm = warmUpPipeline()
   .catch((err: Error) => process.stderr.write(`[logs] warm-up: ${err.message}\n`))
-  .then(() => post({ type: 'warm' }));
+  .then(() => {
+    collectGarbage();
+    post({ type: 'warm' });
+  });
 
 parentPort!.on('message', async (input: PipelineInput) => {
   await warm;
@@ -66,4 +70,6 @@ parentPort!.on('message', async (input: PipelineInput) => {
       error: { name: e.name, message: e.message, code: e.code, line: e.line, column: e.column ?? null },
     });
   }
+  // The log's shared columns are freed once this thread lets go of them too (collect-garbage.ts).
+  setImmediate(collectGarbage);
 });
