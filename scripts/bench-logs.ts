@@ -35,7 +35,6 @@ import { cleaningSettingsSchema } from '../shared/schemas/as-applied.schema';
 import { rateToSi } from '../shared/rates/rate-units';
 import { runPipeline, type PipelineInput, type PipelineStage } from '../server/logs/pipeline';
 import { apartTables, copyLogTable, pointParts, storePoints } from '../server/logs/store-points';
-import { readIntoShared } from '../server/logs/file-store';
 import { cellColumns, pointColumns } from '../server/logs/import-log';
 
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
@@ -365,17 +364,12 @@ export function parseFloor(file: string) {
 
 /* ------------------------------------------------------------------ (b) ours */
 
-type BenchInput = Omit<PipelineInput, 'bytes' | 'fileName' | 'format'>;
-
-/** The buffer (b) read the file into last time: the next run reads into it again (FileStore.readShared does). */
-let sharedSpare: SharedArrayBuffer | null = null;
+type BenchInput = Omit<PipelineInput, 'bytes' | 'file' | 'fileName' | 'format'>;
 
 async function ours(file: string, input: BenchInput, diagnose = false) {
   const stages: Partial<Record<PipelineStage | 'end', number>> = {};
   const t0 = performance.now();
-  // Read into shared memory, as the import does (FileStore.readShared): the CSV is parsed by two threads, and
-  // the buffer of the run before is reused, as the import reuses the last log's.
-  const bytes = await readIntoShared(file, sharedSpare);
+  // From the file, as the import reads a CSV: a piece at a time by two threads, never whole in memory.
   const tRead = performance.now();
   const rssAt = (what: string) => {
     if (process.env.BENCH_RSS_TRACE)
@@ -383,7 +377,7 @@ async function ours(file: string, input: BenchInput, diagnose = false) {
   };
   rssAt('read');
   const out = await runPipeline(
-    { ...input, bytes, fileName: path.basename(file), format: 'csv', diagnose },
+    { ...input, bytes: new Uint8Array(0), file, fileName: path.basename(file), format: 'csv', diagnose },
     (stage) => {
       if (stages[stage] === undefined) rssAt(stage);
       stages[stage] ??= performance.now();
@@ -391,7 +385,6 @@ async function ours(file: string, input: BenchInput, diagnose = false) {
   );
   rssAt('end');
   const t1 = performance.now();
-  sharedSpare = bytes.buffer as SharedArrayBuffer;
   return {
     ms: t1 - t0,
     readMs: tRead - t0,

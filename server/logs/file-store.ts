@@ -36,7 +36,8 @@ export type ReceivedFile = { tmp: string; sha256: string; sizeBytes: number; hea
 export class FileStore {
   constructor(readonly dir: string) {}
 
-  private pathOf(sha256: string) {
+  /** Where the kept file of these bytes is (a CSV log is read from it a piece at a time). */
+  pathOf(sha256: string) {
     if (!/^[0-9a-f]{64}$/.test(sha256)) throw new Error('not a SHA-256');
     return path.join(this.dir, 'log-files', sha256.slice(0, 2), sha256);
   }

@@ -180,13 +180,15 @@ export async function importLog(deps: ImportDeps, logId: string) {
       unitName: 'unit',
       kind: 'seed' as const,
     };
-    const bytes = await deps.files.readShared(ctx.sha256);
+    // A CSV is read from its file a piece at a time (never whole in memory); the other formats whole.
+    const bytes = ctx.format === 'csv' ? new Uint8Array(0) : await deps.files.readShared(ctx.sha256);
     trace('file read');
     let lastWrite = 0;
     let lastStage = '';
     const output = await runPipelineInWorker(
       {
         bytes,
+        file: ctx.format === 'csv' ? deps.files.pathOf(ctx.sha256) : undefined,
         fileName: ctx.fileName,
         format: ctx.format,
         mapping: columnMappingSchema.parse(ctx.mapping),
@@ -230,7 +232,7 @@ export async function importLog(deps: ImportDeps, logId: string) {
       },
     );
     // Both reading threads are done with the bytes (the worker answered): kept for the next log.
-    deps.files.releaseShared(bytes);
+    if (bytes.byteLength > 0) deps.files.releaseShared(bytes);
     trace('worker done');
     await pending;
     await setStatus('storing', 0);

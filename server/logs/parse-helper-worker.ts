@@ -1,11 +1,29 @@
 import { parentPort } from 'node:worker_threads';
-import { LogParseError, parseLogCsvRange, type CsvRangeJob } from '../../shared/audit/csv-log';
+import {
+  LogParseError,
+  parseLogCsvRange,
+  parseLogCsvSourceRange,
+  type CsvRangeJob,
+  type CsvSourceRangeJob,
+} from '../../shared/audit/csv-log';
+import { openFileSource } from './file-source';
 import { collectGarbage } from './collect-garbage';
 
-/** The second parsing thread: reads the ranges it is sent into the shared columns, one at a time. */
-parentPort!.on('message', (job: CsvRangeJob & { id: number }) => {
+/** The second parsing thread: reads the ranges it is sent (of bytes in shared memory, or of a file) into the shared columns, one at a time. */
+/** A range of a file read a piece at a time, from its own handle on the file. */
+function readFileRange(job: CsvSourceRangeJob) {
+  const src = openFileSource(job.file);
   try {
-    parentPort!.postMessage({ id: job.id, ok: true, result: parseLogCsvRange(job) });
+    return parseLogCsvSourceRange(job, src);
+  } finally {
+    src.close();
+  }
+}
+
+parentPort!.on('message', (job: (CsvRangeJob | CsvSourceRangeJob) & { id: number }) => {
+  try {
+    const result = 'file' in job ? readFileRange(job) : parseLogCsvRange(job);
+    parentPort!.postMessage({ id: job.id, ok: true, result });
   } catch (err) {
     const e = err as Error;
     parentPort!.postMessage({

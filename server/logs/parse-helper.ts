@@ -1,5 +1,10 @@
 import { Worker } from 'node:worker_threads';
-import { LogParseError, type CsvRangeJob, type CsvRangeResult } from '../../shared/audit/csv-log';
+import {
+  LogParseError,
+  type CsvRangeJob,
+  type CsvRangeResult,
+  type CsvSourceRangeJob,
+} from '../../shared/audit/csv-log';
 
 type Reply = {
   id: number;
@@ -41,7 +46,7 @@ export function startParseHelper() {
 }
 
 /** Reads a range in the helper thread; rejects with LogParseError for the file, Error for the thread. */
-export function parseRangeInHelper(job: CsvRangeJob): Promise<CsvRangeResult> {
+export function parseRangeInHelper(job: CsvRangeJob | CsvSourceRangeJob): Promise<CsvRangeResult> {
   const h = startParseHelper();
   const id = nextId++;
   return new Promise((resolve, reject) => {

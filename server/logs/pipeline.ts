@@ -7,7 +7,9 @@ import type {
 } from '../../shared/schemas/as-applied.schema';
 import type { RateUnit } from '../../shared/rates/rate-units';
 import type { UnitSystem } from '../../shared/units';
-import { parseLogCsv, parseLogCsvParallel } from '../../shared/audit/csv-log';
+import { parseLogCsv, parseLogCsvParallel, parseLogCsvSource } from '../../shared/audit/csv-log';
+import { readFileSync } from 'node:fs';
+import { openFileSource } from './file-source';
 import { parseRangeInHelper } from './parse-helper';
 import { cleanLog } from '../../shared/audit/clean-log';
 import { zoneIndexOf } from '../../shared/audit/zone-join';
@@ -44,6 +46,11 @@ export type PipelineStage = 'reading' | 'cleaning' | 'auditing';
 
 export type PipelineInput = {
   bytes: Uint8Array;
+  /**
+   * A CSV log's file, read a piece at a time by two threads instead of from `bytes` (then ignored): only the
+   * columns are in memory, never the whole file (PERFORMANCE.md target 2 at 5 M points).
+   */
+  file?: string;
   fileName: string;
   format: 'csv' | 'geojson' | 'shapefile';
   mapping: ColumnMapping;
@@ -124,6 +131,31 @@ function meteredOnOf(c: LogColumns, keep: Uint8Array, fallback: PipelineInput['m
   ) as PipelineInput['meteredOn'];
 }
 
+/** A CSV file read a piece at a time by two threads (the second: server/logs/parse-helper.ts). */
+async function readCsvFile(file: string, mapping: PipelineInput['mapping'], onProgress: (f: number) => void) {
+  const src = openFileSource(file);
+  try {
+    return await parseLogCsvSource(
+      src,
+      file,
+      mapping,
+      parseRangeInHelper,
+      () => new Uint8Array(readFileSync(file)),
+      { onProgress },
+    );
+  } finally {
+    src.close();
+  }
+}
+
+/** A log in memory: a large CSV in shared memory is read by two threads, anything else by one. */
+async function readBytes(input: PipelineInput, onProgress: (f: number) => void) {
+  const csv = input.format === 'csv' ? input.bytes : await pointsFileToCsv(input.bytes, input.fileName);
+  return csv.buffer instanceof SharedArrayBuffer
+    ? await parseLogCsvParallel(csv, input.mapping, parseRangeInHelper, { onProgress })
+    : parseLogCsv(csv, input.mapping, { onProgress });
+}
+
 /**
  * File bytes → the audit: parse (our own tokenizer), clean in FORMATS.md's order, join points to zones,
  * aggregate by area. Pure apart from reading zipped shapefiles; runs inside a worker thread.
@@ -135,13 +167,11 @@ export async function runPipeline(
   onPoints?: (points: PipelinePoints) => void,
 ): Promise<PipelineOutput> {
   progress('reading', 0);
-  const csv = input.format === 'csv' ? input.bytes : await pointsFileToCsv(input.bytes, input.fileName);
   const onProgress = (f: number) => progress('reading', f);
-  // A large CSV in shared memory is read by two threads (the second: server/logs/parse-helper.ts).
   const parsed =
-    csv.buffer instanceof SharedArrayBuffer
-      ? await parseLogCsvParallel(csv, input.mapping, parseRangeInHelper, { onProgress })
-      : parseLogCsv(csv, input.mapping, { onProgress });
+    input.format === 'csv' && input.file
+      ? await readCsvFile(input.file, input.mapping, onProgress)
+      : await readBytes(input, onProgress);
   progress('cleaning', 0);
   const zonesGeo = input.zones.map((z) => z.geometry);
   const rawZone = zoneIndexOf(parsed.lon, parsed.lat, zonesGeo, input.boundary);

@@ -1183,10 +1183,7 @@ export async function parseLogCsvParallel(
     columns: out,
     cap,
   };
-  const pending = second(job).then(
-    (r) => ({ ok: true as const, r }),
-    (err: unknown) => ({ ok: false as const, err }),
-  );
+  const pending = settledOf(second(job));
   let first: ReturnType<typeof parseBody>;
   try {
     first = parseBody(bytes, mapping, header, out, cap, {
@@ -1220,6 +1217,238 @@ export async function parseLogCsvParallel(
     });
     secondPart = { n: r.n, skipped: r.skipped };
   }
+  opts.onProgress?.(1);
+  return joinHalves(mapping, header.columns, out, firstCap, first, secondPart, linesBefore);
+}
+
+/**
+ * Where a large log's bytes come from when it is not held whole in memory: a file, read a piece at a time
+ * (server/logs/file-source.ts). `read` fills `into` from `position` on and answers how many bytes it read.
+ */
+export type ByteSource = { size: number; read(into: Uint8Array, position: number): number };
+
+/** A log read from a ByteSource is read in pieces of this size (a piece ends at its last line break). */
+export const SOURCE_PIECE_BYTES = 8 * 1024 * 1024;
+
+/** The lines of a source's range [start, end), for a second thread (`parseLogCsvSource`). */
+export type CsvSourceRangeJob = Omit<CsvRangeJob, 'bytes'> & {
+  /** Where the second thread opens the source (a file path). */
+  file: string;
+  /** The header's line number and byte offset, and its columns and separator (read once by the first thread). */
+  header: { columns: string[]; delimiter: CsvDelimiter; dataStart: number; dataLine: number };
+  pieceBytes: number;
+};
+
+/** A piece holding a double quote: a quoted field may hold a line break, so the file is read whole. */
+class QuoteInPiece extends Error {}
+
+function readFully(src: ByteSource, into: Uint8Array, position: number) {
+  let got = 0;
+  while (got < into.length) {
+    const k = src.read(into.subarray(got), position + got);
+    if (k <= 0) throw new Error(`the file ended at byte ${position + got} of ${src.size}`);
+    got += k;
+  }
+}
+
+/** Line breaks in the source's [start, end), a piece at a time (as countLineBreaks: never too few). */
+function countSourceLineBreaks(src: ByteSource, start: number, end: number, buf: Uint8Array) {
+  let count = 0;
+  for (let pos = start; pos < end;) {
+    const want = Math.min(buf.length, end - pos);
+    readFully(src, buf.subarray(0, want), pos);
+    count += countLineBreaks(buf, 0, want);
+    pos += want;
+  }
+  return count;
+}
+
+/**
+ * parseBody over the source's [start, end) a piece at a time into `columns` (sized for every line): each
+ * piece is cut after its last line break, so every line is read whole, with the same values, skipped points
+ * and messages (line numbers carried from piece to piece) as from the whole file in memory.
+ */
+function parseSourceBody(
+  src: ByteSource,
+  mapping: ColumnMapping,
+  header: HeaderInfo,
+  columns: LogColumns,
+  cap: number,
+  range: BodyRange,
+  buf: Uint8Array,
+) {
+  let n = range.n0;
+  let line = range.firstLine;
+  const skipped = { count: 0, lines: [] as number[] };
+  for (let pos = range.start; pos < range.end;) {
+    const want = Math.min(buf.length, range.end - pos);
+    readFully(src, buf.subarray(0, want), pos);
+    let cut = want;
+    if (pos + want < range.end) {
+      cut = buf.lastIndexOf(LF, want - 1) + 1;
+      if (cut === 0)
+        throw new LogParseError(
+          line,
+          null,
+          `the line is longer than ${groupDigits(range.maxLineBytes)} bytes`,
+        );
+    }
+    const piece = buf.subarray(0, cut);
+    if (piece.includes(QUOTE)) throw new QuoteInPiece();
+    const r = parseBody(piece, mapping, header, columns, cap, {
+      start: 0,
+      end: cut,
+      firstLine: line,
+      n0: n,
+      maxLineBytes: range.maxLineBytes,
+      fixedCapacity: true,
+    });
+    n = r.n;
+    line = r.line;
+    skipped.count += r.skipped.count;
+    for (const l of r.skipped.lines) if (skipped.lines.length < 5) skipped.lines.push(l);
+    pos += cut;
+    range.onProgress?.((pos - range.start) / Math.max(1, range.end - range.start));
+  }
+  return { n, line, skipped };
+}
+
+/** Reads one range of a source's lines into shared columns (the second thread's half of parseLogCsvSource). */
+export function parseLogCsvSourceRange(job: CsvSourceRangeJob, src: ByteSource): CsvRangeResult {
+  const header: HeaderInfo = { ...job.header, sample: [] };
+  const buf = new Uint8Array(job.pieceBytes);
+  const r = parseSourceBody(
+    src,
+    job.mapping,
+    header,
+    job.columns,
+    job.cap,
+    {
+      start: job.start,
+      end: job.end,
+      firstLine: 0,
+      n0: job.n0,
+      maxLineBytes: job.maxLineBytes,
+      fixedCapacity: true,
+    },
+    buf,
+  );
+  return { n: r.n, skipped: r.skipped };
+}
+
+/**
+ * parseLogCsvParallel for a log that is never held whole in memory: read from `src` a piece at a time
+ * (SOURCE_PIECE_BYTES), the first half of the lines by this thread and the second by `second` (which opens
+ * the same file), into one set of shared columns; only the columns and two pieces are in memory, not the
+ * file. Same columns, skipped points and errors as parseLogCsv of the whole file (tested both ways). The
+ * lines are counted first (a pass over the file) to size the columns. A file with a double quote below its
+ * header (a quoted field may hold a line break), or a failing second thread, is read whole by `whole`.
+ */
+export async function parseLogCsvSource(
+  src: ByteSource,
+  file: string,
+  mapping: ColumnMapping,
+  second: (job: CsvSourceRangeJob) => Promise<CsvRangeResult>,
+  whole: () => Uint8Array,
+  opts: { onProgress?(fraction: number): void; maxLineBytes?: number; pieceBytes?: number } = {},
+): Promise<LogColumns & { skipped: { count: number; lines: number[] } }> {
+  const maxLineBytes = opts.maxLineBytes ?? DEFAULT_MAX_LINE_BYTES;
+  const pieceBytes = Math.max(opts.pieceBytes ?? SOURCE_PIECE_BYTES, 2 * maxLineBytes + 2);
+  const size = src.size;
+  const readWhole = () => parseLogCsv(whole(), mapping, opts);
+  const head = new Uint8Array(Math.min(size, pieceBytes));
+  readFully(src, head, 0);
+  const header = headerOf(head, 0, maxLineBytes);
+  // A header that does not end inside the first piece, or a file of one piece: read whole.
+  if (header.dataStart >= head.length || size <= pieceBytes) return readWhole();
+  checkMapping(mapping, header.columns);
+  const buf = new Uint8Array(pieceBytes);
+  // The line break nearest the middle of the lines below the header splits them between the two threads.
+  const half = header.dataStart + ((size - header.dataStart) >> 1);
+  const window = buf.subarray(0, Math.min(buf.length, size - half));
+  readFully(src, window, half);
+  const lf = window.indexOf(LF);
+  if (lf < 0 || half + lf + 1 >= size) return readWhole();
+  const mid = half + lf + 1;
+  const firstCap = countSourceLineBreaks(src, header.dataStart, mid, buf);
+  const last = new Uint8Array(1);
+  readFully(src, last, size - 1);
+  const cap = firstCap + countSourceLineBreaks(src, mid, size, buf) + (last[0] !== LF ? 1 : 0);
+  const out = allocate(mapping, cap, true);
+  const job: CsvSourceRangeJob = {
+    file,
+    header: {
+      columns: header.columns,
+      delimiter: header.delimiter,
+      dataStart: header.dataStart,
+      dataLine: header.dataLine,
+    },
+    pieceBytes,
+    mapping,
+    start: mid,
+    end: size,
+    n0: firstCap,
+    maxLineBytes,
+    columns: out,
+    cap,
+  };
+  const pending = settledOf(second(job));
+  let first: ReturnType<typeof parseSourceBody>;
+  try {
+    first = parseSourceBody(
+      src,
+      mapping,
+      header,
+      out,
+      cap,
+      {
+        start: header.dataStart,
+        end: mid,
+        firstLine: header.dataLine,
+        n0: 0,
+        maxLineBytes,
+        fixedCapacity: true,
+        onProgress: opts.onProgress ? (f) => opts.onProgress!(f / 2) : undefined,
+      },
+      buf,
+    );
+  } catch (err) {
+    await pending; // the second thread is done with the columns before they are dropped
+    if (err instanceof QuoteInPiece) return readWhole();
+    throw err; // an error in the first half comes before anything in the second
+  }
+  const linesBefore = first.line;
+  const done = await pending;
+  let secondPart: CsvRangeResult;
+  if (done.ok) secondPart = done.r;
+  else if (done.err instanceof LogParseError)
+    throw new LogParseError(done.err.line + linesBefore, done.err.column, done.err.detail);
+  else return readWhole(); // a quote in the second half, or the second thread failed
+  opts.onProgress?.(1);
+  return joinHalves(mapping, header.columns, out, firstCap, first, secondPart, linesBefore);
+}
+
+/** A promise's outcome, never rejected: the first thread waits for the second whatever happens. */
+const settledOf = <T>(p: Promise<T>) =>
+  p.then(
+    (r) => ({ ok: true as const, r }),
+    (err: unknown) => ({ ok: false as const, err }),
+  );
+
+/**
+ * The two halves' rows as one log: the second half was written from an upper bound of the first half's
+ * points on (`firstCap`), so a gap (blank or skipped lines in the first half) is closed; then the units'
+ * factors, and the skipped points with the second half's line numbers made absolute.
+ */
+function joinHalves(
+  mapping: ColumnMapping,
+  columns: string[],
+  out: LogColumns,
+  firstCap: number,
+  first: { n: number; skipped: { count: number; lines: number[] } },
+  secondPart: CsvRangeResult,
+  linesBefore: number,
+) {
   let n = secondPart.n;
   if (first.n < firstCap) {
     const gap = firstCap - first.n;
@@ -1229,8 +1458,7 @@ export async function parseLogCsvParallel(
     });
     n -= gap;
   }
-  applyUnitFactors(mapping, header.columns, out, n);
-  opts.onProgress?.(1);
+  applyUnitFactors(mapping, columns, out, n);
   const skipped = {
     count: first.skipped.count + secondPart.skipped.count,
     lines: [...first.skipped.lines, ...secondPart.skipped.lines.map((l) => l + linesBefore)].slice(0, 5),

@@ -90,13 +90,15 @@ describe('sign-in', () => {
     await time(uniqueEmail('warm')); // the dummy hash is built once
     const known: number[] = [];
     const unknown: number[] = [];
-    for (let i = 0; i < 2; i++) {
+    // Four of each, the fastest compared: a busy machine slows single requests by 2× and more.
+    for (let i = 0; i < 4; i++) {
       known.push(await time(w.people.consultant.email));
       unknown.push(await time(uniqueEmail('ghost')));
     }
     const k = Math.min(...known);
     const u = Math.min(...unknown);
-    // Without the dummy hash an unknown e-mail answers in ~1 ms against tens of ms: a ratio, not a timing target.
+    // Without the dummy hash an unknown e-mail answers in ~1 ms against tens of ms (a ratio near 0.05): a
+    // ratio, not a timing target. Both verify one argon2id hash of the same cost, so neither is far slower.
     expect(u / k).toBeGreaterThan(0.5);
     expect(u / k).toBeLessThan(2);
   });

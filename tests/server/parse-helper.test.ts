@@ -4,10 +4,15 @@ import {
   PARALLEL_MIN_BYTES,
   parseLogCsv,
   parseLogCsvParallel,
+  parseLogCsvSource,
   readCsvHeader,
   suggestMapping,
 } from '../../shared/audit/csv-log';
 import { parseRangeInHelper, stopParseHelper } from '../../server/logs/parse-helper';
+import { openFileSource } from '../../server/logs/file-source';
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
 
 afterAll(() => stopParseHelper());
 
@@ -26,6 +31,42 @@ function bigLog(bad = -1) {
 }
 
 describe('the second parsing thread', () => {
+  it('reads the second half of a log file a piece at a time in a worker: the same columns as one thread', async () => {
+    const { bytes, mapping, rows } = bigLog();
+    const dir = mkdtempSync(path.join(tmpdir(), 'sowright-pieces-'));
+    const file = path.join(dir, 'log.csv');
+    writeFileSync(file, bytes);
+    const src = openFileSource(file);
+    let asked = 0;
+    let whole = 0;
+    try {
+      const two = await parseLogCsvSource(
+        src,
+        file,
+        mapping,
+        (job) => {
+          asked++;
+          return parseRangeInHelper(job);
+        },
+        () => {
+          whole++;
+          return bytes;
+        },
+        { pieceBytes: 256 * 1024 }, // about 20 pieces in each half
+      );
+      const one = parseLogCsv(bytes, mapping);
+      expect([asked, whole]).toEqual([1, 0]);
+      expect(two.n).toBe(rows);
+      for (const k of ['t', 'lon', 'lat', 'target', 'applied'] as const)
+        expect(Buffer.from(two[k].buffer, two[k].byteOffset, rows * 8)).toEqual(
+          Buffer.from(one[k].buffer, one[k].byteOffset, rows * 8),
+        );
+    } finally {
+      src.close();
+      rmSync(dir, { recursive: true, force: true });
+    }
+  });
+
   it('reads the second half of a large log in a worker: the same columns as one thread', async () => {
     const { bytes, mapping, rows } = bigLog();
     expect(bytes.length).toBeGreaterThan(PARALLEL_MIN_BYTES);

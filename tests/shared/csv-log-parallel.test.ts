@@ -8,20 +8,10 @@ import {
   suggestMapping,
   type CsvRangeJob,
 } from '../../shared/audit/csv-log';
+import { csv } from './csv-log-rows';
 
 // The parallel read must give exactly what the one-thread read gives: values, skipped points and their
 // lines, and the same error (the first line's) — whatever lies on either side of the split.
-
-const HEADER = 'time (s),lon,lat,target (seeds/ac),applied (seeds/ac),gnss speed (mph)\n';
-const row = (i: number) =>
-  `${1_800_000_000 + i * 0.2},${(-93.6 + i * 1e-6).toFixed(7)},${(42 + (i % 97) * 1e-6).toFixed(7)},${32000 + (i % 7) * 250},${31800 + (i % 11) * 50},${(5 + (i % 5) * 0.1).toFixed(1)}\n`;
-
-/** CSV text of n rows; `edit(i, line)` may change row i's line. */
-function csv(n: number, edit: (i: number, line: string) => string = (_, l) => l) {
-  let text = HEADER;
-  for (let i = 0; i < n; i++) text += edit(i, row(i));
-  return text;
-}
 
 /** The bytes in shared memory, as the pipeline reads a file for two threads. */
 const sharedBytes = (text: string) => {
