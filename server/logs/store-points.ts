@@ -176,7 +176,7 @@ export async function storePoints(
 /** Names of the tables a failed import of this log may have committed apart (and must drop). */
 export const apartTables = (logId: string) => [
   `${partitionName('cells', logId)}_new`,
-  ...[1].map((k) => pointPartName(logId, k)),
+  pointPartName(logId, 1),
 ];
 
 /**
