@@ -101,13 +101,16 @@ export function seedOrderLine(
     return { ...f, unitsToOrder: units, cost: costOf(units, price) };
   });
   const quantity = sum(fields.map((f) => f.quantity));
-  const unitsAcrossFields = wholeUnits(quantity, product.unitSize);
+  const unitsByField = sum(withUnits.map((f) => f.unitsToOrder));
+  // Each field forgives float noise below 1e-9 of a unit (unitsToOrder); the noise of several fields added
+  // can pass that tolerance, so pooled never orders more than field by field.
+  const unitsAcrossFields = Math.min(wholeUnits(quantity, product.unitSize), unitsByField);
   return {
     product,
     fields: withUnits,
     areaM2: sum(fields.map((f) => f.areaM2)),
     quantity,
-    unitsByField: sum(withUnits.map((f) => f.unitsToOrder)),
+    unitsByField,
     unitsAcrossFields,
     cost: costOf(unitsAcrossFields, price),
   };

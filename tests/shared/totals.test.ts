@@ -125,6 +125,14 @@ describe('seed order line (DEVELOPERS.md "Prescriptions")', () => {
     expect(line.fields[0].cost).toBeNull();
   });
 
+  it('does not order a unit for float noise spread over fields (a case the property below once found)', () => {
+    // Two fields of 6.7e-10 and 3.3e-10 of a unit: each is noise (under unitsToOrder's 1e-9), their sum
+    // 1.0000000000000002e-9 just passes it; pooled must not order the unit field by field does not.
+    const line = seedOrderLine(product, [field(0, 6.720989997161359e-10), field(1, 3.2790100028386433e-10)]);
+    expect(line.unitsByField).toBe(0);
+    expect(line.unitsAcrossFields).toBe(0);
+  });
+
   it('never orders more across fields than field by field, nor less than the seed needs', () => {
     fc.assert(
       fc.property(fc.array(fc.double({ min: 0, max: 50, noNaN: true }), { maxLength: 12 }), (units) => {
