@@ -1356,13 +1356,14 @@ export async function parseLogCsvSource(
   const pieceBytes = Math.max(opts.pieceBytes ?? SOURCE_PIECE_BYTES, 2 * maxLineBytes + 2);
   const size = src.size;
   const readWhole = () => parseLogCsv(whole(), mapping, opts);
-  const head = new Uint8Array(Math.min(size, pieceBytes));
+  // One piece buffer for the header, the middle and the counting (the header keeps no reference to it).
+  const buf = new Uint8Array(pieceBytes);
+  const head = buf.subarray(0, Math.min(size, pieceBytes));
   readFully(src, head, 0);
   const header = headerOf(head, 0, maxLineBytes);
   // A header that does not end inside the first piece, or a file of one piece: read whole.
   if (header.dataStart >= head.length || size <= pieceBytes) return readWhole();
   checkMapping(mapping, header.columns);
-  const buf = new Uint8Array(pieceBytes);
   // The line break nearest the middle of the lines below the header splits them between the two threads.
   const half = header.dataStart + ((size - header.dataStart) >> 1);
   const window = buf.subarray(0, Math.min(buf.length, size - half));
